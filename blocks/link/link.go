@@ -1,0 +1,168 @@
+package link
+
+import (
+	"encoding/binary"
+	"fmt"
+	"math/bits"
+	"reflect"
+
+	"tally/blocks/rng"
+)
+
+// Tally is what a tap counted: trials (bits or frames) and the errors among them.
+type Tally struct {
+	Trials int64
+	Errors int64
+}
+
+// Tap names. Every link counts TapBER (decoded bits against source bits) and TapFER (frames
+// with any decoded bit wrong); a link with a coder also counts TapPre (the demodulator's hard
+// decisions against the coded bits, the pre-FEC BER).
+const (
+	TapBER = "ber"
+	TapFER = "fer"
+	TapPre = "pre"
+)
+
+// Coder is implemented by blocks that change the code rate (encoders, puncturers). A link
+// that holds one counts the pre-FEC tap too.
+type Coder interface{ Rate() float64 }
+
+// Counter is a user-defined tap: it returns the trials and errors of one frame.
+type Counter func(f *Frame) (trials, errors int64)
+
+// Link is the chain of blocks of one sweep point, plus its taps. The engine builds one per
+// worker; Run processes one frame through it.
+type Link struct {
+	blocks  []Block
+	streams []rng.Stream
+	taps    []string
+	extra   []Counter
+	coded   bool
+}
+
+// Chain makes a link of blocks in the order the signal passes them.
+func Chain(blocks ...Block) *Link {
+	l := &Link{}
+	l.Add(blocks...)
+	return l
+}
+
+// Add appends blocks to the end of the link and returns it.
+func (l *Link) Add(blocks ...Block) *Link {
+	for _, b := range blocks {
+		if c, ok := b.(Coder); ok && c.Rate() != 1 {
+			l.coded = true
+		}
+		l.blocks = append(l.blocks, b)
+	}
+	return l
+}
+
+// Count adds a tap of the script's own (a symbol error rate, say) under name.
+func (l *Link) Count(name string, c Counter) *Link {
+	l.taps = append(l.taps, name)
+	l.extra = append(l.extra, c)
+	return l
+}
+
+// Blocks are the link's blocks in order.
+func (l *Link) Blocks() []Block { return l.blocks }
+
+// Taps are the names of what the link counts, in the order Run reports them.
+func (l *Link) Taps() []string {
+	t := []string{TapBER, TapFER}
+	if l.coded {
+		t = append(t, TapPre)
+	}
+	return append(t, l.taps...)
+}
+
+// Check reports the first block whose parameters are wrong, or a link that cannot count.
+func (l *Link) Check() error {
+	if len(l.blocks) == 0 {
+		return fmt.Errorf("link: no blocks")
+	}
+	for i, b := range l.blocks {
+		if b == nil {
+			return fmt.Errorf("link: block %d is nil", i+1)
+		}
+		if c, ok := b.(Checked); ok {
+			if err := c.Err(); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
+}
+
+// Run passes frame index of point through the link with streams keyed by seed, and adds what
+// every tap counted to counts (one Tally per name of Taps). f's buffers are reused.
+func (l *Link) Run(f *Frame, seed uint64, point, index int, counts []Tally) error {
+	if len(l.streams) != len(l.blocks) {
+		l.streams = make([]rng.Stream, len(l.blocks))
+	}
+	*f = Frame{Point: point, Index: index, SPS: 1, CodeRate: 1, Es: 1}
+	for k, b := range l.blocks {
+		s := &l.streams[k]
+		s.Reset(rng.Key(seed, point, index, k))
+		if err := b.Process(f, s); err != nil {
+			return fmt.Errorf("%s: %w", NameOf(b), err)
+		}
+	}
+	out := f.Out
+	if out == nil {
+		out = f.Hard
+	}
+	if len(out) != len(f.Bits) {
+		return fmt.Errorf("link: %d decided bits for %d source bits (is a demodulator or decoder missing?)", len(out), len(f.Bits))
+	}
+	e := CountErrors(f.Bits, out)
+	counts[0].Trials += int64(len(f.Bits))
+	counts[0].Errors += e
+	counts[1].Trials++
+	if e > 0 {
+		counts[1].Errors++
+	}
+	i := 2
+	if l.coded {
+		if len(f.Hard) != len(f.Coded) {
+			return fmt.Errorf("link: %d hard decisions for %d coded bits", len(f.Hard), len(f.Coded))
+		}
+		counts[2].Trials += int64(len(f.Coded))
+		counts[2].Errors += CountErrors(f.Coded, f.Hard)
+		i = 3
+	}
+	for j, c := range l.extra {
+		n, e := c(f)
+		counts[i+j].Trials += n
+		counts[i+j].Errors += e
+	}
+	return nil
+}
+
+// CountErrors counts the positions where two equal-length bit slices (one bit per byte) differ,
+// eight bytes at a time.
+func CountErrors(a, b []byte) int64 {
+	n := min(len(a), len(b))
+	var e int
+	i := 0
+	for ; i+8 <= n; i += 8 {
+		x := binary.LittleEndian.Uint64(a[i:]) ^ binary.LittleEndian.Uint64(b[i:])
+		e += bits.OnesCount64(x)
+	}
+	for ; i < n; i++ {
+		if a[i] != b[i] {
+			e++
+		}
+	}
+	return int64(e)
+}
+
+func typeName(b Block) string {
+	t := reflect.TypeOf(b)
+	for t.Kind() == reflect.Pointer {
+		t = t.Elem()
+	}
+	return t.String()
+}

@@ -1,0 +1,37 @@
+// Package stop holds the rules that end a sweep point. A point ends when any of its rules is
+// met. Rules are judged by the engine on the committed prefix of frames only (frames in order,
+// none missing), so where a point stops never depends on the number of workers, and a replay of
+// the committed counts (resume, merge) reaches the same decision.
+package stop
+
+import (
+	"time"
+
+	"tally/blocks/link"
+)
+
+// Progress is what a rule sees: the counts of the committed prefix of one point.
+type Progress struct {
+	Frames  int64         // frames committed
+	Taps    []string      // tap names, as link.Link.Taps
+	Counts  []link.Tally  // per tap, same order as Taps
+	Elapsed time.Duration // wall time spent on the point (only time rules look at it)
+}
+
+// Tap returns the counts of the named tap, and false when the link has no such tap.
+func (p *Progress) Tap(name string) (link.Tally, bool) {
+	for i, n := range p.Taps {
+		if n == name {
+			return p.Counts[i], true
+		}
+	}
+	return link.Tally{}, false
+}
+
+// Rule decides whether a point has run enough.
+type Rule interface {
+	// Met reports whether the point may end now.
+	Met(p *Progress) bool
+	// Name is what the table's stop column says when this rule ended the point.
+	Name() string
+}

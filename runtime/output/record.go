@@ -1,0 +1,42 @@
+package output
+
+import (
+	"encoding/json"
+
+	"tally/runtime/result"
+)
+
+// record is run.json: the run with, per point, the BER tap's figures flattened beside the
+// parameters so a reader need not know the tap layout.
+type record struct {
+	*result.Run
+	Points []recordPoint `json:"points"`
+}
+
+type recordPoint struct {
+	Params map[string]string `json:"params"`
+	Bits   int64             `json:"bits"`
+	Errors int64             `json:"errors"`
+	BER    float64           `json:"ber"`
+	Low    float64           `json:"ci_low"`
+	High   float64           `json:"ci_high"`
+	result.Point
+}
+
+// Record is run.json.
+func Record(r *result.Run) ([]byte, error) {
+	rec := record{Run: r}
+	for _, p := range r.Points {
+		rp := recordPoint{Params: map[string]string{}, Point: p}
+		for i, n := range r.Params {
+			rp.Params[n] = r.Value(p, i)
+		}
+		if len(p.Taps) > 0 {
+			t := p.Taps[0]
+			rp.Bits, rp.Errors, rp.BER, rp.Low, rp.High = t.Trials, t.Errors, t.Rate, t.Low, t.High
+		}
+		rec.Points = append(rec.Points, rp)
+	}
+	b, err := json.MarshalIndent(rec, "", "  ")
+	return append(b, '\n'), err
+}

@@ -1,0 +1,87 @@
+package output
+
+import (
+	"bytes"
+	"fmt"
+	"strings"
+
+	"tally/runtime/result"
+)
+
+// Summary is README.md: what ran, the table, the plot, and the targets, for a code host to
+// render when someone opens the folder.
+func Summary(r *result.Run, files []string) []byte {
+	var b bytes.Buffer
+	fmt.Fprintf(&b, "# %s\n\n", r.Name)
+	fmt.Fprintf(&b, "Results of `%s` (script SHA-256 `%.12s…`), seed %d, %s intervals at %g %% confidence.",
+		r.Script, r.ScriptSHA256, r.Seed, r.Method, 100*r.Confidence)
+	if r.Interrupted {
+		b.WriteString(" **The run was interrupted**: the last point is incomplete.")
+	}
+	b.WriteString("\n\n")
+	for _, f := range files {
+		if strings.HasSuffix(f, ".png") {
+			fmt.Fprintf(&b, "![%s](%s)\n\n", r.Name, f)
+		}
+	}
+	if len(r.Targets) > 0 {
+		b.WriteString("## At the target\n\n")
+		for _, t := range r.Targets {
+			fmt.Fprintf(&b, "- %s", targetLine(r, t))
+			b.WriteString("\n")
+		}
+		b.WriteString("\n")
+	}
+	b.WriteString("## Points\n\n|")
+	for _, p := range r.Params {
+		fmt.Fprintf(&b, " %s |", p)
+	}
+	b.WriteString(" bits | errors | BER | interval | stop |")
+	for _, c := range r.Theory {
+		fmt.Fprintf(&b, " %s |", c)
+	}
+	b.WriteString("\n|")
+	for range len(r.Params) + 5 + len(r.Theory) {
+		b.WriteString("---|")
+	}
+	b.WriteString("\n")
+	for _, p := range r.Points {
+		b.WriteString("|")
+		for i := range r.Params {
+			fmt.Fprintf(&b, " %s |", r.Value(p, i))
+		}
+		t := p.Taps[0]
+		fmt.Fprintf(&b, " %d | %d | %s | [%s, %s] | %s |", t.Trials, t.Errors, Num(t.Rate), Num(t.Low), Num(t.High), p.Stop)
+		for _, v := range p.Theory {
+			fmt.Fprintf(&b, " %s |", Num(v))
+		}
+		b.WriteString("\n")
+	}
+	if len(r.Taps) > 1 {
+		b.WriteString("\nOther taps (frame error rate, pre-decoder BER, the script's own counts) are in `table.csv`.\n")
+	}
+	b.WriteString("\nSimulated and estimated error rates do not replace conformance testing under the applicable standards and licensed practice.\n")
+	return b.Bytes()
+}
+
+func targetLine(r *result.Run, t result.Target) string {
+	x := "the x axis"
+	if len(r.Params) > 0 {
+		x = r.Params[0]
+	}
+	where := ""
+	if t.Curve != "" {
+		where = " (" + t.Curve + ")"
+	}
+	if !t.Found {
+		return fmt.Sprintf("%s = %g%s: not bracketed by the sweep (%s)", t.Tap, t.Rate, where, t.Note)
+	}
+	s := fmt.Sprintf("%s = %g%s at %s = %.2f, interval [%.2f, %.2f]", t.Tap, t.Rate, where, x, t.X, t.Low, t.High)
+	if t.Against != "" && t.Note == "" {
+		s += fmt.Sprintf("; %.2f dB from %s", t.Penalty, t.Against)
+	}
+	if t.Note != "" {
+		s += " (" + t.Note + ")"
+	}
+	return s
+}

@@ -1,0 +1,88 @@
+// Package result is the value a finished run produces: what the writers put in table.csv,
+// run.json and README.md, and what plots draw. It knows nothing of how the run was computed.
+package result
+
+import (
+	"strconv"
+	"time"
+)
+
+// Run is a finished (or interrupted) run of one experiment.
+type Run struct {
+	Name         string     `json:"name"`          // the experiment's title
+	Script       string     `json:"script"`        // script file name (base name)
+	ScriptSHA256 string     `json:"script_sha256"` // hash of the script's bytes
+	Tool         string     `json:"tool_version"`
+	GoVersion    string     `json:"go_version"`
+	Mode         string     `json:"mode"` // "interpreted" or "compiled"
+	Seed         uint64     `json:"seed"`
+	Workers      int        `json:"workers"`
+	Confidence   float64    `json:"confidence"`
+	Method       string     `json:"interval_method"`  // the method chosen; each estimate names what it used
+	Params       []string   `json:"params"`           // swept parameter names, x axis first
+	Labels       [][]string `json:"labels,omitempty"` // per parameter, the names of its values (nil: numeric)
+	Taps         []string   `json:"taps"`             // what the link counted
+	Theory       []string   `json:"theory"`           // theory curve names
+	Points       []Point    `json:"points"`
+	Targets      []Target   `json:"targets,omitempty"`
+	Interrupted  bool       `json:"interrupted"`
+	Start        time.Time  `json:"start"`
+	End          time.Time  `json:"end"`
+}
+
+// Point is one sweep point's outcome.
+type Point struct {
+	Values  []float64 `json:"values"` // one per Params
+	Frames  int64     `json:"frames"`
+	Taps    []Tap     `json:"taps"` // one per Run.Taps
+	Stop    string    `json:"stop"` // the rule that ended the point, "interrupted", or "skipped: …"
+	Theory  []float64 `json:"theory"`
+	Seconds float64   `json:"wall_seconds"`
+	BitRate float64   `json:"bits_per_second"`
+}
+
+// Tap is what one tap counted at a point, with its estimate.
+type Tap struct {
+	Name   string  `json:"name"`
+	Trials int64   `json:"trials"`
+	Errors int64   `json:"errors"`
+	Rate   float64 `json:"rate"`
+	Low    float64 `json:"ci_low"`
+	High   float64 `json:"ci_high"`
+	Method string  `json:"method"`
+}
+
+// Target is the swept value at which a tap crosses a target error rate.
+type Target struct {
+	Tap     string  `json:"tap"`
+	Rate    float64 `json:"target"`
+	Curve   string  `json:"curve,omitempty"` // the value of the second sweep parameter, for grids
+	Found   bool    `json:"found"`
+	X       float64 `json:"x"`
+	Low     float64 `json:"x_low"`
+	High    float64 `json:"x_high"`
+	Against string  `json:"against,omitempty"` // theory curve compared with
+	Penalty float64 `json:"penalty_db,omitempty"`
+	Note    string  `json:"note,omitempty"`
+}
+
+// Value is a point's value of parameter i as the table shows it: its label, or the number.
+func (r *Run) Value(p Point, i int) string {
+	if i < len(r.Labels) && r.Labels[i] != nil {
+		k := int(p.Values[i])
+		if k >= 0 && k < len(r.Labels[i]) {
+			return r.Labels[i][k]
+		}
+	}
+	return strconv.FormatFloat(p.Values[i], 'g', -1, 64)
+}
+
+// TapIndex is the index of the named tap, or -1.
+func (r *Run) TapIndex(name string) int {
+	for i, t := range r.Taps {
+		if t == name {
+			return i
+		}
+	}
+	return -1
+}

@@ -1,0 +1,84 @@
+package sim
+
+import (
+	"context"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"os/signal"
+	"runtime"
+
+	"tally/runtime/result"
+)
+
+// DefaultSeed is the seed of a run that names none; it is recorded in every run record.
+const DefaultSeed = 1
+
+// Options are what the command line or the interpreter host tells a run.
+type Options struct {
+	Context context.Context
+	Script  string // path of the script file
+	Source  []byte // the script's bytes (hashed into the run record)
+	Mode    string // "interpreted" or "compiled"
+	Workers int    // 0: all cores
+	Seed    uint64
+	SeedSet bool      // Seed given on the command line (overrides the script's)
+	Quiet   bool      // no progress output
+	Log     io.Writer // progress and summaries (default stderr)
+	// Done receives the finished run before its files are written; an error from it fails the run.
+	Done func(r *result.Run) error
+	// Extra holds the long-run settings (resume, shard) handled by the run layer.
+	Extra map[string]string
+}
+
+// Hosted tells the package that scripts run in the interpreter host: from then on mistakes
+// panic, so the interpreter reports the script line, instead of exiting the process.
+func Hosted() { hosted = true }
+
+// NewWith is New with options given by the host rather than read from the command line. The
+// host binds each script's sim.New to it.
+func NewWith(name string, o *Options) *Experiment {
+	return &Experiment{name: name, confidence: 0.95, method: "clopper-pearson", seed: DefaultSeed, opts: o}
+}
+
+// commandLine reads the options of a compiled run (go run file.go [flags]).
+func commandLine() *Options {
+	o := &Options{Mode: "compiled", Seed: DefaultSeed}
+	fs := flag.NewFlagSet("experiment", flag.ContinueOnError)
+	fs.IntVar(&o.Workers, "workers", 0, "parallel workers (0: all cores)")
+	seed := fs.Uint64("seed", DefaultSeed, "random seed")
+	fs.BoolVar(&o.Quiet, "quiet", false, "no progress output")
+	if err := fs.Parse(os.Args[1:]); err != nil {
+		if err == flag.ErrHelp {
+			os.Exit(0)
+		}
+		os.Exit(2)
+	}
+	fs.Visit(func(f *flag.Flag) {
+		if f.Name == "seed" {
+			o.Seed, o.SeedSet = *seed, true
+		}
+	})
+	if _, file, _, ok := runtime.Caller(2); ok {
+		scriptFile = file
+		o.Script = file
+		o.Source, _ = os.ReadFile(file)
+	}
+	ctx, _ := signal.NotifyContext(context.Background(), os.Interrupt)
+	o.Context = ctx
+	return o
+}
+
+func (o *Options) log() io.Writer {
+	if o.Log != nil {
+		return o.Log
+	}
+	return os.Stderr
+}
+
+func (o *Options) logf(format string, a ...any) {
+	if !o.Quiet {
+		fmt.Fprintf(o.log(), format, a...)
+	}
+}

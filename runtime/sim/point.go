@@ -1,0 +1,60 @@
+package sim
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+)
+
+// Point is one point of the sweep: a value for every swept parameter.
+type Point struct {
+	Index  int       // position in the run, 0-based
+	Names  []string  // swept parameter names, x axis first
+	Values []float64 // one per name
+	labels [][]string
+}
+
+// Get is the value of the named parameter. An unknown name stops the script with a message
+// listing the swept names.
+func (p Point) Get(name string) float64 {
+	for i, n := range p.Names {
+		if n == name {
+			return p.Values[i]
+		}
+	}
+	fail(fmt.Errorf("sim.Point.Get: no swept parameter %q (swept: %s)", name, strings.Join(p.Names, ", ")))
+	return math.NaN()
+}
+
+// Int is Get as an int, for counts such as bits of an ADC or a modulation order.
+func (p Point) Int(name string) int { return int(math.Round(p.Get(name))) }
+
+// Label is the label of a parameter swept with SweepLabels ("16-QAM"), or its value as text.
+func (p Point) Label(name string) string {
+	v := p.Get(name)
+	for i, n := range p.Names {
+		if n == name && p.labels[i] != nil {
+			return p.labels[i][int(v)]
+		}
+	}
+	return strconv.FormatFloat(v, 'g', -1, 64)
+}
+
+// Range is from, from+step, … up to to (included when it falls on the grid, allowing for
+// rounding), computed as from + i·step so no error accumulates.
+func Range(from, to, step float64) []float64 {
+	if !(step > 0) || math.IsInf(from, 0) || math.IsInf(to, 0) || math.IsNaN(from) || math.IsNaN(to) {
+		fail(fmt.Errorf("sim.Range: step %v must be positive and the ends (%v, %v) finite", step, from, to))
+		return nil
+	}
+	var v []float64
+	for i := 0; ; i++ {
+		x := from + float64(i)*step
+		if x > to+step*1e-9 {
+			break
+		}
+		v = append(v, x)
+	}
+	return v
+}

@@ -1,0 +1,235 @@
+package sim
+
+import (
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	goruntime "runtime"
+	"strings"
+	"time"
+
+	"tally/blocks/link"
+	"tally/blocks/stats"
+	"tally/blocks/stop"
+	"tally/runtime/engine"
+	"tally/runtime/output"
+	"tally/runtime/result"
+)
+
+// Version is tally's version, recorded in every run record.
+const Version = "0.1.0"
+
+// ErrInterrupted is the error of a run ended by Ctrl-C (its finished points are written).
+var ErrInterrupted = errors.New("run interrupted")
+
+// Run runs every point and writes table.csv, run.json, the plots and README.md into the folder
+// named after the script beside it. A mistake stops the script with file:line: message.
+func (x *Experiment) Run() {
+	r, err := x.Execute()
+	if err != nil && !errors.Is(err, ErrInterrupted) {
+		fail(err)
+	}
+	if r != nil {
+		if werr := x.write(r); werr != nil {
+			fail(werr)
+		}
+	}
+	if errors.Is(err, ErrInterrupted) {
+		if hosted {
+			panic(err)
+		}
+		fmt.Fprintln(os.Stderr, "interrupted: finished points written")
+		os.Exit(130)
+	}
+}
+
+// Execute runs the sweep and returns its result without writing files. The result of an
+// interrupted run holds the finished points and the interrupted one, with ErrInterrupted.
+func (x *Experiment) Execute() (*result.Run, error) {
+	o := x.opts
+	if x.build == nil {
+		return nil, fmt.Errorf("sim: the experiment has no Link")
+	}
+	if len(x.params) == 0 {
+		return nil, fmt.Errorf("sim: the experiment sweeps nothing (add x.Sweep(\"ebn0_db\", …))")
+	}
+	ctx := o.Context
+	if ctx == nil {
+		ctx = context.Background()
+	}
+	seed := x.seed
+	if o.SeedSet {
+		seed = o.Seed
+	}
+	workers := o.Workers
+	if workers <= 0 {
+		workers = goruntime.NumCPU()
+	}
+	if _, err := stats.ForPoint(link.Tally{}, x.confidence, x.method, 0); err != nil {
+		return nil, fmt.Errorf("sim.Interval: %w", err)
+	}
+	rules := x.rules
+	if len(rules) == 0 {
+		rules = []stop.Rule{stop.Errors(100), stop.Bits(1e9)}
+	}
+	sum := sha256.Sum256(o.Source)
+	run := &result.Run{
+		Name: x.name, Script: filepath.Base(o.Script), ScriptSHA256: hex.EncodeToString(sum[:]),
+		Tool: Version, GoVersion: goruntime.Version(), Mode: o.Mode, Seed: seed, Workers: workers,
+		Confidence: x.confidence, Method: x.method, Start: time.Now().UTC(),
+	}
+	for _, p := range x.params {
+		run.Params = append(run.Params, p.name)
+	}
+	run.Labels = x.labels()
+	for _, c := range x.theory {
+		run.Theory = append(run.Theory, c.name)
+	}
+	points := x.grid()
+	for _, pt := range points {
+		rp, err := x.runPoint(ctx, pt, rules, seed, workers)
+		if err != nil {
+			return nil, err
+		}
+		if run.Taps == nil {
+			for _, t := range rp.Taps {
+				run.Taps = append(run.Taps, t.Name)
+			}
+		}
+		run.Points = append(run.Points, rp)
+		x.report(pt, rp)
+		if rp.Stop == engine.Interrupted {
+			run.Interrupted = true
+			break
+		}
+	}
+	run.End = time.Now().UTC()
+	x.findTargets(run)
+	if run.Interrupted {
+		return run, ErrInterrupted
+	}
+	return run, nil
+}
+
+func (x *Experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, seed uint64, workers int) (rp result.Point, err error) {
+	build := func() (l *link.Link, err error) {
+		if !hosted {
+			defer func() {
+				if v := recover(); v != nil {
+					err = recovered(v)
+				}
+			}()
+		}
+		l = x.build(pt)
+		if l == nil {
+			return nil, fmt.Errorf("sim: the Link function returned nil for point %d", pt.Index+1)
+		}
+		return l, nil
+	}
+	out, err := engine.Run(ctx, engine.Spec{Point: pt.Index, Build: build, Rules: rules, Seed: seed, Workers: workers})
+	if err != nil {
+		return rp, err
+	}
+	rp = result.Point{Values: pt.Values, Frames: out.Frames, Stop: out.Stop, Seconds: out.Elapsed.Seconds()}
+	for i, name := range out.Taps {
+		var target int64
+		if et, ok := out.Rule.(*stop.ErrorTarget); ok && et.On == name {
+			target = et.Count
+		}
+		est, err := stats.ForPoint(out.Counts[i], x.confidence, x.method, target)
+		if err != nil {
+			return rp, err
+		}
+		rp.Taps = append(rp.Taps, result.Tap{Name: name, Trials: out.Counts[i].Trials, Errors: out.Counts[i].Errors,
+			Rate: est.Rate, Low: est.Low, High: est.High, Method: est.Method})
+	}
+	if rp.Seconds > 0 && len(rp.Taps) > 0 {
+		rp.BitRate = float64(rp.Taps[0].Trials) / rp.Seconds
+	}
+	for _, c := range x.theory {
+		rp.Theory = append(rp.Theory, c.fn(pt))
+	}
+	return rp, nil
+}
+
+// grid lists the points: the first parameter varies fastest, so each curve's points are
+// consecutive.
+func (x *Experiment) grid() []Point {
+	names := make([]string, len(x.params))
+	labels := make([][]string, len(x.params))
+	n := 1
+	for i, p := range x.params {
+		names[i], labels[i] = p.name, p.labels
+		n *= len(p.values)
+	}
+	pts := make([]Point, n)
+	for k := range pts {
+		v := make([]float64, len(x.params))
+		rem := k
+		for i, p := range x.params {
+			v[i] = p.values[rem%len(p.values)]
+			rem /= len(p.values)
+		}
+		pts[k] = Point{Index: k, Names: names, Values: v, labels: labels}
+	}
+	return pts
+}
+
+func (x *Experiment) report(pt Point, rp result.Point) {
+	var b strings.Builder
+	for _, n := range pt.Names {
+		fmt.Fprintf(&b, "%s=%s ", n, pt.Label(n))
+	}
+	t := rp.Taps[0]
+	fmt.Fprintf(&b, " bits=%d errors=%d ber=%.3g [%.3g, %.3g] stop=%s  %.1f Mbit/s\n",
+		t.Trials, t.Errors, t.Rate, t.Low, t.High, rp.Stop, rp.BitRate/1e6)
+	x.opts.logf("%s", b.String())
+}
+
+type curveView struct {
+	label  string
+	points []result.Point
+}
+
+// curves splits the points into curves along the x axis (one per value of the other parameters).
+func (x *Experiment) curves(run *result.Run) []curveView {
+	nx := len(x.params[0].values)
+	var cs []curveView
+	for i := 0; i+nx <= len(run.Points); i += nx {
+		pts := run.Points[i : i+nx]
+		var lab []string
+		for k := 1; k < len(x.params); k++ {
+			pt := Point{Names: run.Params, Values: pts[0].Values, labels: x.labels()}
+			lab = append(lab, x.params[k].name+"="+pt.Label(x.params[k].name))
+		}
+		cs = append(cs, curveView{label: strings.Join(lab, " "), points: pts})
+	}
+	return cs
+}
+
+func (x *Experiment) labels() [][]string {
+	l := make([][]string, len(x.params))
+	for i, p := range x.params {
+		l[i] = p.labels
+	}
+	return l
+}
+
+func (x *Experiment) write(r *result.Run) error {
+	if x.opts.Done != nil {
+		if err := x.opts.Done(r); err != nil {
+			return err
+		}
+	}
+	dir := OutputDir(x.opts.Script)
+	return output.Write(dir, r)
+}
+
+// OutputDir is the folder beside a script that holds its outputs: dir/<name>.go → dir/<name>.
+func OutputDir(script string) string {
+	return strings.TrimSuffix(script, filepath.Ext(script))
+}
