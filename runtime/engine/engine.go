@@ -29,30 +29,78 @@ type Spec struct {
 	Workers int // 0 means all cores
 
 	// Start is the committed state to continue from (resume): frames 0..Start.Frames-1 are
-	// taken as done with these counts. Nil starts afresh.
+	// taken as done with these counts. Nil starts afresh. The rules are judged on it before
+	// any frame is computed, so a point that had ended ends again, for the same rule.
 	Start *State
 	// Shard, when set, selects the frames this run computes: frame f is computed when
-	// f % Of == Index. Rules are not judged on a shard (its counts are not a prefix); it runs
-	// until it has committed Limit of its own frames or the context ends.
+	// f % Of == Index, and Start, Outcome and OnProgress count this shard's frames only. Its
+	// counts are not a prefix of the point, so the rules cannot be judged on them; see Shard
+	// for when a shard ends.
 	Shard *Shard
+	// Replay, when set, replaces computing: frame f's counts are Replay(f), taken in frame
+	// order from Start on and judged exactly as computed frames are (a merge of shards). When
+	// Replay has no frame f the point ends with Stop == Short. Build is called once, for the
+	// taps.
+	Replay func(frame int64) ([]link.Tally, bool)
 	// OnCommit, if set, is called by the committing goroutine after each frame commit with the
 	// frame index and that frame's counts (not the running sum). It must be quick.
 	OnCommit func(frame int64, counts []link.Tally)
+	// Where, if set, is called when a block panics, from the panicking goroutine, to name the
+	// script position reached (the host's marker, or the compiled stack).
+	Where func() string
 	// OnProgress, if set, is called at most every ProgressEvery with the prefix state.
 	OnProgress    func(p *stop.Progress)
 	ProgressEvery time.Duration
 }
 
-// Shard is a deterministic share of a point's frames.
+// Shard is a deterministic share of a point's frames: frame f belongs to shard f mod Of.
+//
+// A shard cannot judge the rules, which hold for the whole point's prefix, so it judges them
+// on an estimate of what all Of shards together have counted when it has counted its own
+// share (see Estimate), and ends once a rule is met on that estimate and it has computed at
+// least Min of its own frames. The merge then judges the real prefix; should the estimate
+// have erred, the merge names the points that need more frames and a further round extends
+// them (Min).
 type Shard struct {
-	Index, Of int   // this shard computes frames f with f % Of == Index
-	Limit     int64 // frames of this shard to compute
+	Index, Of int     // this shard computes frames f with f % Of == Index
+	Min       int64   // frames of this shard to compute at least
+	Z         float64 // safety margin of the estimate in standard deviations (0: DefaultZ)
+}
+
+// DefaultZ is the shard estimate's margin: three standard deviations, so that a shard rarely
+// ends before the merged prefix meets the rule (about 0.1 % of shard points, for an error
+// count near its target; common practice, no source).
+const DefaultZ = 3
+
+// Estimate is what the whole point has counted, erring low, when this shard has counted own:
+// frames and trials scaled by Of (frames have a fixed size, so trials scale exactly), errors
+// scaled by Of less Z standard deviations. The other Of−1 shards' errors are Poisson-like with
+// mean (Of−1)·e, estimated from this shard's e, so the total Of·e has variance about
+// Of·(Of−1)·e — the count's own (Of−1)·e plus the estimate's (Of−1)²·e.
+func (s Shard) Estimate(own, into *stop.Progress) {
+	n := float64(s.Of)
+	z := s.Z
+	if z == 0 {
+		z = DefaultZ
+	}
+	into.Taps = own.Taps
+	into.Frames = own.Frames * int64(s.Of)
+	into.Elapsed = own.Elapsed
+	if len(into.Counts) != len(own.Counts) {
+		into.Counts = make([]link.Tally, len(own.Counts))
+	}
+	for i, c := range own.Counts {
+		e := float64(c.Errors)
+		low := math.Floor(n*e - z*math.Sqrt(n*(n-1)*e))
+		into.Counts[i] = link.Tally{Trials: c.Trials * int64(s.Of), Errors: int64(math.Max(0, low))}
+	}
 }
 
 // State is a point's committed prefix.
 type State struct {
-	Frames int64
-	Counts []link.Tally
+	Frames  int64
+	Counts  []link.Tally
+	Elapsed time.Duration // wall time already spent on it (time rules go on from there)
 }
 
 // Outcome is how a point ended.
@@ -68,6 +116,9 @@ type Outcome struct {
 
 // Interrupted is the stop reason of a point ended by its context.
 const Interrupted = "interrupted"
+
+// Short is the stop reason of a replayed point whose frames ran out before a rule was met.
+const Short = "short"
 
 type done struct {
 	index  int64
@@ -97,38 +148,58 @@ func Run(ctx context.Context, s Spec) (Outcome, error) {
 			}
 		}
 	}
-	links := make([]*link.Link, workers)
-	links[0] = first
-	for w := 1; w < workers; w++ {
-		if links[w], err = s.Build(); err != nil {
-			return Outcome{}, err
-		}
-	}
-
 	start := time.Now()
 	prog := &stop.Progress{Taps: taps, Counts: make([]link.Tally, len(taps))}
+	var before time.Duration
 	if s.Start != nil {
+		if len(s.Start.Counts) != len(taps) {
+			return Outcome{}, fmt.Errorf("point %d: the saved state has %d taps, the link %d", s.Point+1, len(s.Start.Counts), len(taps))
+		}
 		prog.Frames = s.Start.Frames
 		copy(prog.Counts, s.Start.Counts)
+		before = s.Start.Elapsed
 	}
 	out := Outcome{Taps: taps}
 
-	// check judges the rules on the committed prefix.
+	// check judges the rules on the committed prefix (a shard: on its estimate of the prefix).
+	// A replay sees no wall time: a time rule cannot be replayed, only honoured live.
+	judged := prog
+	var est stop.Progress
+	if s.Shard != nil {
+		judged = &est
+	}
 	check := func() bool {
-		if s.Shard != nil {
-			return prog.Frames >= s.Shard.Limit
+		if s.Replay == nil {
+			prog.Elapsed = before + time.Since(start)
 		}
-		prog.Elapsed = time.Since(start)
+		if s.Shard != nil {
+			s.Shard.Estimate(prog, &est)
+		}
 		for _, r := range s.Rules {
-			if r.Met(prog) {
+			if r.Met(judged) {
 				out.Stop, out.Rule = r.Name(), r
+				if s.Shard != nil && prog.Frames < s.Shard.Min {
+					out.Stop, out.Rule = "", nil
+					return false
+				}
 				return true
 			}
 		}
 		return false
 	}
 	if check() {
-		return finish(out, prog, start), nil
+		return finish(out, prog, start, before), nil
+	}
+	if s.Replay != nil {
+		return replay(ctx, s, out, prog, check, start, before)
+	}
+
+	links := make([]*link.Link, workers)
+	links[0] = first
+	for w := 1; w < workers; w++ {
+		if links[w], err = s.Build(); err != nil {
+			return Outcome{}, err
+		}
 	}
 
 	// The committer hands out frame indices, at most window ahead of the committed prefix, so
@@ -160,7 +231,7 @@ func Run(ctx context.Context, s Spec) (Outcome, error) {
 					continue
 				}
 				c := make([]link.Tally, len(taps))
-				err := l.Run(&f, s.Seed, s.Point, int(idx), c)
+				err := runFrame(l, &f, s, int(idx), c)
 				results <- done{index: idx, counts: c, err: err}
 			}
 		}(links[w])
@@ -220,6 +291,28 @@ loop:
 	}
 	return finish(out, prog, start), nil
 }
+
+// runFrame runs one frame, turning a panic in a block (a script's own, say) into an error that
+// names where it happened when Spec.Where can tell.
+func runFrame(l *link.Link, f *link.Frame, s Spec, idx int, c []link.Tally) (err error) {
+	defer func() {
+		if v := recover(); v != nil {
+			err = &PanicError{Value: v}
+			if s.Where != nil {
+				err.(*PanicError).Where = s.Where()
+			}
+		}
+	}()
+	return l.Run(f, s.Seed, s.Point, idx, c)
+}
+
+// PanicError is a panic inside a block while it processed a frame.
+type PanicError struct {
+	Value any
+	Where string // the script position, when known
+}
+
+func (e *PanicError) Error() string { return fmt.Sprintf("panic: %v", e.Value) }
 
 func finish(out Outcome, prog *stop.Progress, start time.Time) Outcome {
 	out.Counts = append([]link.Tally(nil), prog.Counts...)

@@ -8,12 +8,17 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"go/parser"
+	"go/scanner"
+	"go/token"
 	"io"
 	"os"
 	"path/filepath"
 	"reflect"
 	"regexp"
+	"strconv"
 	"strings"
+	"testing/fstest"
 
 	"github.com/traefik/yaegi/interp"
 	"github.com/traefik/yaegi/stdlib"
@@ -63,6 +68,15 @@ func Run(ctx context.Context, path string, cfg Config) error {
 	if err := checkImports(path, src, cfg.Trust); err != nil {
 		return err
 	}
+	fset := token.NewFileSet()
+	file, err := parser.ParseFile(fset, path, src, 0)
+	if err != nil {
+		return translate(path, err, nil)
+	}
+	if err := checkLimits(fset, file, path); err != nil {
+		return err
+	}
+	marked, mk := instrument(fset, file, src)
 	sim.Hosted()
 	opts := &sim.Options{Context: ctx, Script: path, Source: src, Mode: "interpreted", Workers: cfg.Workers,
 		Seed: cfg.Seed, SeedSet: cfg.Seed != 0 || cfg.SeedSet, Quiet: cfg.Quiet, Log: cfg.Log, Done: cfg.Done, Extra: cfg.Extra}
@@ -72,15 +86,18 @@ func Run(ctx context.Context, path string, cfg Config) error {
 	if stdout == nil {
 		stdout = os.Stdout
 	}
-	i := interp.New(interp.Options{Stdout: stdout, Stderr: &stderr, Unrestricted: cfg.Trust, GoPath: os.DevNull})
+	name := filepath.Base(path)
+	i := interp.New(interp.Options{Stdout: stdout, Stderr: &stderr, Unrestricted: cfg.Trust, GoPath: os.DevNull,
+		SourcecodeFilesystem: fstest.MapFS{name: &fstest.MapFile{Data: marked}}})
 	if cfg.Trust {
 		err = errors.Join(i.Use(stdlib.Symbols), i.Use(yunsafe.Symbols), i.Use(ysyscall.Symbols))
 	} else {
 		err = i.Use(safeSymbols())
 	}
 	if err == nil {
-		err = i.Use(bound(opts))
+		err = errors.Join(i.Use(bound(opts)), i.Use(mk.exports()))
 	}
+	opts.Where = mk.where
 	if err != nil {
 		return fmt.Errorf("host: %w", err)
 	}
@@ -92,9 +109,9 @@ func Run(ctx context.Context, path string, cfg Config) error {
 		}
 		return nil
 	}
-	_, err = i.EvalPath(path)
+	_, err = i.EvalPath(name)
 	if err != nil {
-		return translate(path, err, stderr.String())
+		return translate(path, err, mk)
 	}
 	if !ran {
 		return &ScriptError{Pos: path, Msg: "the script ran no experiment (does main call Run?)"}
@@ -118,37 +135,42 @@ func bound(opts *sim.Options) interp.Exports {
 	return out
 }
 
-var posRE = regexp.MustCompile(`^(.*?):(\d+):(\d+): (.*)$`)
+var posRE = regexp.MustCompile(`^(?:(.*?):)?(\d+):(\d+): (.*)$`)
 
-// translate turns an interpreter error into a ScriptError at the script's position.
-func translate(path string, err error, stderr string) error {
+// translate turns an interpreter error into a ScriptError at the script's position: a compile
+// error where the interpreter found it, a panic (from script code, sim or a block) at the last
+// statement the script reached.
+func translate(path string, err error, mk *marks) error {
 	var pn interp.Panic
 	if errors.As(err, &pn) {
 		if e, ok := pn.Value.(error); ok && errors.Is(e, sim.ErrInterrupted) {
 			return sim.ErrInterrupted
 		}
-		msg := fmt.Sprint(pn.Value)
-		// The interpreter prints the script position of each frame the panic left; the first
-		// line is the innermost one.
-		for _, line := range strings.Split(stderr, "\n") {
-			if m := posRE.FindStringSubmatch(line); m != nil && strings.HasPrefix(m[4], "panic") {
-				return &ScriptError{Pos: position(path, m[1], m[2], m[3]), Msg: msg}
-			}
+		var f *sim.Failure
+		if e, ok := pn.Value.(error); ok && errors.As(e, &f) && f.Pos != "" {
+			return &ScriptError{Pos: f.Pos, Msg: f.Err.Error()}
 		}
-		return &ScriptError{Pos: path, Msg: msg}
+		pos := path
+		if mk != nil && mk.where() != "" {
+			pos = mk.where()
+		}
+		return &ScriptError{Pos: pos, Msg: fmt.Sprint(pn.Value)}
+	}
+	var list scanner.ErrorList
+	if errors.As(err, &list) && len(list) > 0 {
+		p := list[0].Pos
+		return &ScriptError{Pos: fmt.Sprintf("%s:%d:%d", path, p.Line, p.Column), Msg: list[0].Msg}
 	}
 	s := err.Error()
 	if m := posRE.FindStringSubmatch(firstLine(s)); m != nil {
-		return &ScriptError{Pos: position(path, m[1], m[2], m[3]), Msg: strings.TrimSpace(m[4])}
+		line, _ := strconv.Atoi(m[2])
+		col, _ := strconv.Atoi(m[3])
+		if mk != nil {
+			col = mk.column(line, col)
+		}
+		return &ScriptError{Pos: fmt.Sprintf("%s:%d:%d", path, line, col), Msg: strings.TrimSpace(m[4])}
 	}
 	return &ScriptError{Pos: path, Msg: s}
-}
-
-func position(path, file, line, col string) string {
-	if file == "" || filepath.Base(file) == filepath.Base(path) || strings.HasPrefix(file, "_") {
-		file = path
-	}
-	return file + ":" + line + ":" + col
 }
 
 func firstLine(s string) string {

@@ -48,7 +48,7 @@ func checkImports(path string, src []byte, trust bool) error {
 	fset := token.NewFileSet()
 	f, err := parser.ParseFile(fset, path, src, parser.ImportsOnly)
 	if err != nil {
-		return translate(path, err, "")
+		return translate(path, err, nil)
 	}
 	for _, im := range f.Imports {
 		p, _ := strconv.Unquote(im.Path.Value)

@@ -37,8 +37,21 @@ func fail(err error) {
 	if hosted {
 		panic(err)
 	}
-	fmt.Fprintln(os.Stderr, (&Failure{Pos: scriptPos(callers(3)), Err: err}).Error())
+	var f *Failure
+	if !errors.As(err, &f) || f.Pos == "" {
+		f = &Failure{Pos: scriptPos(callers(3)), Err: err}
+	}
+	fmt.Fprintln(os.Stderr, f.Error())
 	os.Exit(1)
+}
+
+// where names the script statement being run: from the host's markers, or, compiled, from the
+// stack.
+func (o *Options) where(skip int) string {
+	if o.Where != nil {
+		return o.Where()
+	}
+	return scriptPos(callers(skip))
 }
 
 func callers(skip int) []uintptr {

@@ -28,6 +28,9 @@ type Options struct {
 	Log     io.Writer // progress and summaries (default stderr)
 	// Done receives the finished run before its files are written; an error from it fails the run.
 	Done func(r *result.Run) error
+	// Where, set by the host, names the script statement being run ("file:line:col"), so a
+	// mistake found during Run can point at the script.
+	Where func() string
 	// Extra holds the long-run settings (resume, shard) handled by the run layer.
 	Extra map[string]string
 }

@@ -29,8 +29,18 @@ var ErrInterrupted = errors.New("run interrupted")
 // Run runs every point and writes table.csv, run.json, the plots and README.md into the folder
 // named after the script beside it. A mistake stops the script with file:line: message.
 func (x *Experiment) Run() {
+	at := x.opts.where(3)
 	r, err := x.Execute()
 	if err != nil && !errors.Is(err, ErrInterrupted) {
+		var f *Failure
+		var pe *engine.PanicError
+		switch {
+		case errors.As(err, &f):
+		case errors.As(err, &pe) && pe.Where != "":
+			err = &Failure{Pos: pe.Where, Err: err}
+		default:
+			err = &Failure{Pos: at, Err: err}
+		}
 		fail(err)
 	}
 	if r != nil {
@@ -130,7 +140,11 @@ func (x *Experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		}
 		return l, nil
 	}
-	out, err := engine.Run(ctx, engine.Spec{Point: pt.Index, Build: build, Rules: rules, Seed: seed, Workers: workers})
+	where := x.opts.Where
+	if where == nil {
+		where = func() string { return scriptPos(callers(5)) }
+	}
+	out, err := engine.Run(ctx, engine.Spec{Point: pt.Index, Build: build, Rules: rules, Seed: seed, Workers: workers, Where: where})
 	if err != nil {
 		return rp, err
 	}

@@ -13,15 +13,24 @@ import (
 func init() {
 	Symbols["tally/blocks/channel/channel"] = map[string]reflect.Value{
 		// function, constant and variable definitions
-		"AWGN":     reflect.ValueOf(channel.AWGN),
-		"AWGNEsN0": reflect.ValueOf(channel.AWGNEsN0),
-		"AWGNSNR":  reflect.ValueOf(channel.AWGNSNR),
-		"EbN0":     reflect.ValueOf(channel.EbN0),
-		"EsN0":     reflect.ValueOf(channel.EsN0),
-		"SNR":      reflect.ValueOf(channel.SNR),
+		"AWGN":      reflect.ValueOf(channel.AWGN),
+		"AWGNEsN0":  reflect.ValueOf(channel.AWGNEsN0),
+		"AWGNSNR":   reflect.ValueOf(channel.AWGNSNR),
+		"Derotate":  reflect.ValueOf(channel.Derotate),
+		"EbN0":      reflect.ValueOf(channel.EbN0),
+		"EsN0":      reflect.ValueOf(channel.EsN0),
+		"KnownGain": reflect.ValueOf(channel.KnownGain),
+		"Multipath": reflect.ValueOf(channel.Multipath),
+		"Rayleigh":  reflect.ValueOf(channel.Rayleigh),
+		"Rician":    reflect.ValueOf(channel.Rician),
+		"RicianDB":  reflect.ValueOf(channel.RicianDB),
+		"SNR":       reflect.ValueOf(channel.SNR),
 
 		// type definitions
-		"Level":      reflect.ValueOf((*channel.Level)(nil)),
-		"WhiteNoise": reflect.ValueOf((*channel.WhiteNoise)(nil)),
+		"FIR":            reflect.ValueOf((*channel.FIR)(nil)),
+		"Fading":         reflect.ValueOf((*channel.Fading)(nil)),
+		"GainCorrection": reflect.ValueOf((*channel.GainCorrection)(nil)),
+		"Level":          reflect.ValueOf((*channel.Level)(nil)),
+		"WhiteNoise":     reflect.ValueOf((*channel.WhiteNoise)(nil)),
 	}
 }

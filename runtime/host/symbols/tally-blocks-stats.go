@@ -6,6 +6,8 @@
 package symbols
 
 import (
+	"go/constant"
+	"go/token"
 	"reflect"
 	"tally/blocks/stats"
 )
@@ -13,10 +15,20 @@ import (
 func init() {
 	Symbols["tally/blocks/stats/stats"] = map[string]reflect.Value{
 		// function, constant and variable definitions
-		"ClopperPearson": reflect.ValueOf(stats.ClopperPearson),
-		"ForPoint":       reflect.ValueOf(stats.ForPoint),
+		"ClopperPearson":  reflect.ValueOf(stats.ClopperPearson),
+		"Default":         reflect.ValueOf(constant.MakeFromLiteral("\"clopper-pearson\"", token.STRING, 0)),
+		"ForFrames":       reflect.ValueOf(stats.ForFrames),
+		"ForPoint":        reflect.ValueOf(stats.ForPoint),
+		"Interval":        reflect.ValueOf(stats.Interval),
+		"InverseMethod":   reflect.ValueOf(constant.MakeFromLiteral("\"negative-binomial\"", token.STRING, 0)),
+		"InverseSampling": reflect.ValueOf(stats.InverseSampling),
+		"Jeffreys":        reflect.ValueOf(stats.Jeffreys),
+		"MethodNamed":     reflect.ValueOf(stats.MethodNamed),
+		"Methods":         reflect.ValueOf(&stats.Methods).Elem(),
+		"Wilson":          reflect.ValueOf(stats.Wilson),
 
 		// type definitions
 		"Estimate": reflect.ValueOf((*stats.Estimate)(nil)),
+		"Method":   reflect.ValueOf((*stats.Method)(nil)),
 	}
 }
