@@ -37,7 +37,9 @@ type WhiteNoise struct {
 func AWGN(db float64) *WhiteNoise { return &WhiteNoise{DB: db, By: EbN0, Block: "channel.AWGN"} }
 
 // AWGNEsN0 is the channel set by Es/N0 in dB.
-func AWGNEsN0(db float64) *WhiteNoise { return &WhiteNoise{DB: db, By: EsN0, Block: "channel.AWGNEsN0"} }
+func AWGNEsN0(db float64) *WhiteNoise {
+	return &WhiteNoise{DB: db, By: EsN0, Block: "channel.AWGNEsN0"}
+}
 
 // AWGNSNR is the channel set by the SNR per sample in dB.
 func AWGNSNR(db float64) *WhiteNoise { return &WhiteNoise{DB: db, By: SNR, Block: "channel.AWGNSNR"} }
