@@ -10,6 +10,7 @@ import (
 	"os/signal"
 
 	"tally/runtime/host"
+	"tally/runtime/longrun"
 	"tally/runtime/sim"
 )
 
@@ -24,6 +25,9 @@ type runFlags struct {
 	seed    uint64
 	quiet   bool
 	trust   bool
+	// long-run flags (-resume, -restart, -checkpoint, -shard, -extend): see longrun.Flags.
+	longFlags func() (*longrun.Settings, error)
+	long      *longrun.Settings
 }
 
 func newRunFlags(name, args string, stderr io.Writer) *runFlags {
@@ -33,6 +37,7 @@ func newRunFlags(name, args string, stderr io.Writer) *runFlags {
 	f.fs.Uint64Var(&f.seed, "seed", sim.DefaultSeed, "random seed (overrides the script's)")
 	f.fs.BoolVar(&f.quiet, "quiet", false, "no progress output")
 	f.fs.BoolVar(&f.trust, "trust", false, "lift the sandbox: let the script import any standard package (os, net, …)")
+	f.longFlags = longrun.Flags(f.fs)
 	f.fs.Usage = func() {
 		fmt.Fprintf(stderr, "usage: tally %s [flags] %s\n\nflags:\n", name, args)
 		f.fs.PrintDefaults()
@@ -41,7 +46,7 @@ func newRunFlags(name, args string, stderr io.Writer) *runFlags {
 }
 
 func (f *runFlags) config(stderr io.Writer) host.Config {
-	c := host.Config{Workers: f.workers, Seed: f.seed, Quiet: f.quiet, Trust: f.trust, Log: stderr}
+	c := host.Config{Workers: f.workers, Seed: f.seed, Quiet: f.quiet, Trust: f.trust, Log: stderr, Long: f.long}
 	f.fs.Visit(func(fl *flag.Flag) {
 		if fl.Name == "seed" {
 			c.SeedSet = true
@@ -56,6 +61,11 @@ func (f *runFlags) parse(args []string) int {
 		if errors.Is(err, flag.ErrHelp) {
 			return 0
 		}
+		return 2
+	}
+	var err error
+	if f.long, err = f.longFlags(); err != nil {
+		fmt.Fprintf(f.fs.Output(), "tally: %v\n", err)
 		return 2
 	}
 	return -1

@@ -26,6 +26,7 @@ import (
 	yunsafe "github.com/traefik/yaegi/stdlib/unsafe"
 
 	"tally/runtime/host/symbols"
+	"tally/runtime/longrun"
 	"tally/runtime/result"
 	"tally/runtime/sim"
 )
@@ -42,6 +43,8 @@ type Config struct {
 	// Done receives each finished run before its files are written.
 	Done  func(r *result.Run) error
 	Extra map[string]string
+	// Long are the checkpoint, resume, shard and merge settings (nil: no checkpoint).
+	Long *longrun.Settings
 }
 
 // ScriptError is a mistake in a script, at a position in it.
@@ -79,7 +82,7 @@ func Run(ctx context.Context, path string, cfg Config) error {
 	marked, mk := instrument(fset, file, src)
 	sim.Hosted()
 	opts := &sim.Options{Context: ctx, Script: path, Source: src, Mode: "interpreted", Workers: cfg.Workers,
-		Seed: cfg.Seed, SeedSet: cfg.Seed != 0 || cfg.SeedSet, Quiet: cfg.Quiet, Log: cfg.Log, Done: cfg.Done, Extra: cfg.Extra}
+		Seed: cfg.Seed, SeedSet: cfg.Seed != 0 || cfg.SeedSet, Quiet: cfg.Quiet, Log: cfg.Log, Done: cfg.Done, Extra: cfg.Extra, Long: cfg.Long}
 	opts.SeedSet = cfg.SeedSet
 	var stderr bytes.Buffer
 	stdout := cfg.Stdout
