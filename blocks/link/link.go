@@ -9,10 +9,22 @@ import (
 	"tally/blocks/rng"
 )
 
-// Tally is what a tap counted: trials (bits or frames) and the errors among them.
+// Tally is what a tap counted: trials (bits or frames) and the errors among them. A sum of
+// frames also keeps the number of frames and the sum of the squares of their error counts, so
+// the spread of errors between frames (bursts) can be judged without keeping any frame.
 type Tally struct {
-	Trials int64
-	Errors int64
+	Trials  int64
+	Errors  int64
+	Frames  int64 // frames summed (0 in one frame's own counts)
+	Squares int64 // Σ over frames of (errors in the frame)²
+}
+
+// Add sums one frame's counts into t.
+func (t *Tally) Add(frame Tally) {
+	t.Trials += frame.Trials
+	t.Errors += frame.Errors
+	t.Frames++
+	t.Squares += frame.Errors * frame.Errors
 }
 
 // Tap names. Every link counts TapBER (decoded bits against source bits) and TapFER (frames
@@ -41,16 +53,24 @@ type Link struct {
 	coded   bool
 }
 
-// Chain makes a link of blocks in the order the signal passes them.
+// Chain makes a link of blocks in the order the signal passes them. A block with wrong
+// parameters stops the script at this line (see Add).
 func Chain(blocks ...Block) *Link {
 	l := &Link{}
 	l.Add(blocks...)
 	return l
 }
 
-// Add appends blocks to the end of the link and returns it.
+// Add appends blocks to the end of the link and returns it. A block whose parameters are
+// wrong (its Err is not nil) stops the script here, at the line that built the link, with the
+// block's message; Go code that wants the error instead calls Check on a link it built itself.
 func (l *Link) Add(blocks ...Block) *Link {
 	for _, b := range blocks {
+		if c, ok := b.(Checked); ok && b != nil {
+			if err := c.Err(); err != nil {
+				panic(err)
+			}
+		}
 		if c, ok := b.(Coder); ok && c.Rate() != 1 {
 			l.coded = true
 		}

@@ -267,8 +267,7 @@ loop:
 				}
 				delete(pending, want)
 				for i := range d.counts {
-					prog.Counts[i].Trials += d.counts[i].Trials
-					prog.Counts[i].Errors += d.counts[i].Errors
+					prog.Counts[i].Add(d.counts[i])
 				}
 				prog.Frames++
 				out.Computed++
@@ -316,8 +315,7 @@ func replay(ctx context.Context, s Spec, out *Outcome, prog *stop.Progress, chec
 			return Outcome{}, fmt.Errorf("point %d, frame %d: %d taps saved, the link has %d", s.Point+1, f, len(c), len(prog.Counts))
 		}
 		for i := range c {
-			prog.Counts[i].Trials += c[i].Trials
-			prog.Counts[i].Errors += c[i].Errors
+			prog.Counts[i].Add(c[i])
 		}
 		prog.Frames++
 		if s.OnCommit != nil {

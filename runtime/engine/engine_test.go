@@ -72,6 +72,8 @@ func reference(t *testing.T, crossover float64, rules []stop.Rule, max int64) (f
 		for k := range c {
 			p.Counts[k].Trials += c[k].Trials
 			p.Counts[k].Errors += c[k].Errors
+			p.Counts[k].Frames++
+			p.Counts[k].Squares += c[k].Errors * c[k].Errors
 		}
 		p.Frames++
 		for _, r := range rules {
@@ -93,6 +95,8 @@ func sum(frames [][]link.Tally, n int64) []link.Tally {
 		for k := range c {
 			s[k].Trials += c[k].Trials
 			s[k].Errors += c[k].Errors
+			s[k].Frames++
+			s[k].Squares += c[k].Errors * c[k].Errors
 		}
 	}
 	return s

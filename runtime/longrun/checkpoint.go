@@ -28,7 +28,7 @@ type PointState struct {
 	Values  []float64  `json:"values"`
 	Frames  int64      `json:"frames"`
 	Taps    []string   `json:"taps"`           // what the link counts (links may differ by point)
-	Counts  [][2]int64 `json:"counts"`         // per tap: trials, errors
+	Counts  [][4]int64 `json:"counts"`         // per tap: trials, errors, frames, Σ errors²
 	Stop    string     `json:"stop,omitempty"` // the rule that ended it; empty while in progress
 	Seconds float64    `json:"seconds"`        // wall time spent on it
 }
@@ -72,20 +72,20 @@ func (c *Checkpoint) Set(p PointState) {
 	c.Points = append(c.Points, p)
 }
 
-// Pack turns tallies into the file's pairs.
-func Pack(t []link.Tally) [][2]int64 {
-	p := make([][2]int64, len(t))
+// Pack turns tallies into the file's rows: trials, errors, frames, Σ errors².
+func Pack(t []link.Tally) [][4]int64 {
+	p := make([][4]int64, len(t))
 	for i, c := range t {
-		p[i] = [2]int64{c.Trials, c.Errors}
+		p[i] = [4]int64{c.Trials, c.Errors, c.Frames, c.Squares}
 	}
 	return p
 }
 
-// Unpack turns the file's pairs into tallies.
-func Unpack(p [][2]int64) []link.Tally {
+// Unpack turns the file's rows into tallies.
+func Unpack(p [][4]int64) []link.Tally {
 	t := make([]link.Tally, len(p))
 	for i, c := range p {
-		t[i] = link.Tally{Trials: c[0], Errors: c[1]}
+		t[i] = link.Tally{Trials: c[0], Errors: c[1], Frames: c[2], Squares: c[3]}
 	}
 	return t
 }

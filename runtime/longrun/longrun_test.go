@@ -13,8 +13,8 @@ import (
 func testCheckpoint() *Checkpoint {
 	return &Checkpoint{Name: "uplink", Script: "uplink.go", SHA256: strings.Repeat("ab", 32), Seed: 3,
 		Points: []PointState{
-			{Index: 0, Values: []float64{0}, Frames: 12, Taps: []string{"ber", "fer"}, Counts: [][2]int64{{12288, 150}, {12, 12}}, Stop: "errors", Seconds: 0.5},
-			{Index: 1, Values: []float64{2.5}, Frames: 40, Taps: []string{"ber", "fer"}, Counts: [][2]int64{{40960, 61}, {40, 30}}, Seconds: 1.25},
+			{Index: 0, Values: []float64{0}, Frames: 12, Taps: []string{"ber", "fer"}, Counts: [][4]int64{{12288, 150, 12, 2100}, {12, 12, 12, 12}}, Stop: "errors", Seconds: 0.5},
+			{Index: 1, Values: []float64{2.5}, Frames: 40, Taps: []string{"ber", "fer"}, Counts: [][4]int64{{40960, 61, 40, 120}, {40, 30, 40, 30}}, Seconds: 1.25},
 		}}
 }
 
@@ -103,7 +103,7 @@ func TestShardRuns(t *testing.T) {
 		t.Errorf("a frame past the end")
 	}
 	s := p.Sum()
-	if s[0] != (link.Tally{Trials: 448, Errors: 4}) || s[1] != (link.Tally{Trials: 7, Errors: 2}) {
+	if s[0] != (link.Tally{Trials: 448, Errors: 4, Frames: 7, Squares: 10}) || s[1] != (link.Tally{Trials: 7, Errors: 2, Frames: 7, Squares: 2}) {
 		t.Errorf("sum %v", s)
 	}
 	if err := p.check(); err != nil {

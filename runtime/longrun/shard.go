@@ -175,8 +175,11 @@ func (p *ShardPoint) Sum() []link.Tally {
 	s := make([]link.Tally, len(p.Taps))
 	for _, r := range p.Runs {
 		for i := range s {
+			e := r[2+2*i]
 			s[i].Trials += r[0] * r[1+2*i]
-			s[i].Errors += r[0] * r[2+2*i]
+			s[i].Errors += r[0] * e
+			s[i].Frames += r[0]
+			s[i].Squares += r[0] * e * e
 		}
 	}
 	return s

@@ -238,8 +238,7 @@ func (l *longRun) checkpoint(pt Point, spec engine.Spec, run runner) (engine.Out
 	})
 	spec.OnCommit = chainCommit(spec.OnCommit, func(f int64, c []link.Tally) {
 		for i := range c {
-			counts[i].Trials += c[i].Trials
-			counts[i].Errors += c[i].Errors
+			counts[i].Add(c[i])
 		}
 		cur.Frames++
 		if l.due() {
