@@ -2,6 +2,7 @@ package output
 
 import (
 	"encoding/json"
+	"math"
 
 	"tally/runtime/result"
 )
@@ -15,6 +16,7 @@ type record struct {
 
 type recordPoint struct {
 	Params map[string]string `json:"params"`
+	Theory []*float64        `json:"theory"` // null where a curve has no value (NaN)
 	Bits   int64             `json:"bits"`
 	Errors int64             `json:"errors"`
 	BER    float64           `json:"ber"`
@@ -28,6 +30,13 @@ func Record(r *result.Run) ([]byte, error) {
 	rec := record{Run: r}
 	for _, p := range r.Points {
 		rp := recordPoint{Params: map[string]string{}, Point: p}
+		for _, v := range p.Theory {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				rp.Theory = append(rp.Theory, nil)
+			} else {
+				rp.Theory = append(rp.Theory, &v)
+			}
+		}
 		for i, n := range r.Params {
 			rp.Params[n] = r.Value(p, i)
 		}

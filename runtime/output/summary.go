@@ -3,6 +3,7 @@ package output
 import (
 	"bytes"
 	"fmt"
+	"math"
 	"strings"
 
 	"tally/runtime/result"
@@ -57,6 +58,20 @@ func Summary(r *result.Run, files []string) []byte {
 		}
 		b.WriteString("\n")
 	}
+	var bursty []string
+	for _, p := range r.Points {
+		if t := p.Taps[0]; strings.HasSuffix(t.Method, "+clustered") {
+			var at []string
+			for i, n := range r.Params {
+				at = append(at, n+" "+r.Value(p, i))
+			}
+			bursty = append(bursty, fmt.Sprintf("%s (dispersion %.1f)", strings.Join(at, ", "), t.Dispersion))
+		}
+	}
+	if len(bursty) > 0 {
+		fmt.Fprintf(&b, "\nErrors came in bursts at %s. Those intervals are widened by the spread of errors between frames, since intervals for independent errors would be too narrow.\n",
+			strings.Join(bursty, "; "))
+	}
 	if len(r.Taps) > 1 {
 		b.WriteString("\nOther taps (frame error rate, pre-decoder BER, the script's own counts) are in `table.csv`.\n")
 	}
@@ -78,7 +93,18 @@ func targetLine(r *result.Run, t result.Target) string {
 	}
 	s := fmt.Sprintf("%s = %g%s at %s = %.2f, interval [%.2f, %.2f]", t.Tap, t.Rate, where, x, t.X, t.Low, t.High)
 	if t.Against != "" && t.Note == "" {
-		s += fmt.Sprintf("; %.2f dB from %s", t.Penalty, t.Against)
+		more := "more"
+		if t.Penalty < 0 {
+			more = "less"
+		}
+		s += fmt.Sprintf("; needs %.2f dB %s than %s", math.Abs(t.Penalty), more, t.Against)
+	}
+	if t.GainOver != "" {
+		less := "less"
+		if t.Gain < 0 {
+			less = "more"
+		}
+		s += fmt.Sprintf("; %.2f dB %s than %s", math.Abs(t.Gain), less, t.GainOver)
 	}
 	if t.Note != "" {
 		s += " (" + t.Note + ")"

@@ -5,6 +5,7 @@ package output
 import (
 	"bytes"
 	"encoding/csv"
+	"math"
 	"strconv"
 
 	"tally/blocks/link"
@@ -26,8 +27,14 @@ func tapColumns(tap string) []string {
 	}
 }
 
-// Num formats a rate or interval bound: six significant digits, the same bytes on every run.
-func Num(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) }
+// Num formats a rate or interval bound: six significant digits, the same bytes on every run;
+// an undefined value (NaN, a theory curve with no value there) is an empty cell.
+func Num(v float64) string {
+	if math.IsNaN(v) {
+		return ""
+	}
+	return strconv.FormatFloat(v, 'g', 6, 64)
+}
 
 // Table is table.csv: a column per swept parameter, a column group per tap (the BER tap first,
 // then stop), and a column per theory curve. It holds no times, so a rerun with the same seed
@@ -52,7 +59,11 @@ func Table(r *result.Run) []byte {
 			row = append(row, r.Value(p, i))
 		}
 		for i, t := range p.Taps {
-			row = append(row, strconv.FormatInt(t.Trials, 10), strconv.FormatInt(t.Errors, 10), Num(t.Rate), Num(t.Low), Num(t.High))
+			if t.Absent {
+				row = append(row, "", "", "", "", "")
+			} else {
+				row = append(row, strconv.FormatInt(t.Trials, 10), strconv.FormatInt(t.Errors, 10), Num(t.Rate), Num(t.Low), Num(t.High))
+			}
 			if i == 0 {
 				row = append(row, p.Stop)
 			}

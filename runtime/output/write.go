@@ -14,7 +14,7 @@ type File struct {
 	Data []byte
 }
 
-// Extra, when set, adds files (the plots) to every Write; the summary links those it names.
+// Extra, when set, adds files to every Write after the plots; the summary links those it names.
 var Extra func(r *result.Run) ([]File, error)
 
 // Files are all the files of a run, in the order they are written.
@@ -24,11 +24,16 @@ func Files(r *result.Run) ([]File, error) {
 		return nil, err
 	}
 	files := []File{{"table.csv", Table(r)}, {"run.json", rec}}
-	var extra []File
+	extra, err := plotFiles(r)
+	if err != nil {
+		return nil, err
+	}
 	if Extra != nil {
-		if extra, err = Extra(r); err != nil {
+		more, err := Extra(r)
+		if err != nil {
 			return nil, err
 		}
+		extra = append(extra, more...)
 	}
 	files = append(files, extra...)
 	names := make([]string, len(extra))
@@ -90,10 +95,12 @@ func writeTemp(dir string, f File) (string, error) {
 	if err != nil {
 		return "", fmt.Errorf("output: %w", err)
 	}
+	// CreateTemp makes the file private; outputs are for colleagues to read.
+	merr := tf.Chmod(0o644)
 	_, werr := tf.Write(f.Data)
 	serr := tf.Sync()
 	cerr := tf.Close()
-	if err := firstErr(werr, serr, cerr); err != nil {
+	if err := firstErr(merr, werr, serr, cerr); err != nil {
 		os.Remove(tf.Name())
 		return "", fmt.Errorf("output: %s: %w", f.Name, err)
 	}

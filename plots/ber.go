@@ -1,0 +1,358 @@
+package plots
+
+import (
+	"fmt"
+	"image/color"
+	"math"
+	"strings"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+
+	"tally/blocks/link"
+	"tally/runtime/result"
+)
+
+// curve is the points of one value of the parameters after the first, in sweep order.
+type curve struct {
+	label  string
+	points []result.Point
+}
+
+// curves groups the run's points by the values of every parameter but the first.
+func curves(r *result.Run) []curve {
+	var cs []curve
+	index := map[string]int{}
+	for _, p := range r.Points {
+		var parts []string
+		for i := 1; i < len(r.Params) && i < len(p.Values); i++ {
+			parts = append(parts, ValueLabel(r.Params[i], r.Value(p, i)))
+		}
+		key := strings.Join(parts, ", ")
+		k, ok := index[key]
+		if !ok {
+			k = len(cs)
+			index[key] = k
+			cs = append(cs, curve{label: key})
+		}
+		cs[k].points = append(cs[k].points, p)
+	}
+	return cs
+}
+
+// showFrames reports whether the frame error rate gets its own panel: for a coded link (it has
+// a pre-decoder tap), or when the run was judged on frames (a rule or a target on the fer tap).
+func showFrames(r *result.Run) bool {
+	if r.TapIndex(link.TapFER) < 0 {
+		return false
+	}
+	if r.TapIndex(link.TapPre) >= 0 {
+		return true
+	}
+	for _, t := range r.Targets {
+		if t.Tap == link.TapFER {
+			return true
+		}
+	}
+	for _, p := range r.Points {
+		if strings.HasPrefix(p.Stop, link.TapFER+"_") {
+			return true
+		}
+	}
+	return false
+}
+
+// BER draws a run's error rates against its first swept parameter. It returns nil when no
+// point counted anything (nothing to draw).
+func BER(r *result.Run) (*Figure, error) {
+	ber := r.TapIndex(link.TapBER)
+	if ber < 0 || len(r.Params) == 0 {
+		return nil, nil
+	}
+	counted := false
+	for _, p := range r.Points {
+		if ber < len(p.Taps) && p.Taps[ber].Trials > 0 {
+			counted = true
+		}
+	}
+	if !counted {
+		return nil, nil
+	}
+	cs := curves(r)
+	many := len(cs) > 1
+	pre := r.TapIndex(link.TapPre)
+	frames := showFrames(r)
+	legend := &Legend{}
+	confidence := fmt.Sprintf("%g %%", 100*r.Confidence)
+
+	left := panel(r, "bit error rate")
+	var right *plot.Plot
+	if frames {
+		right = panel(r, "frame error rate")
+	}
+	var ys, fys []float64 // values that set the y ranges
+	for ci, c := range cs {
+		cl := colour(ci)
+		s := tapSeries(c.points, ber)
+		s.line = draw.LineStyle{Color: cl, Width: vg.Points(1.4)}
+		s.glyph = draw.GlyphStyle{Color: cl, Radius: vg.Points(2.6), Shape: draw.CircleGlyph{}}
+		s.boundSty = draw.GlyphStyle{Color: cl, Radius: vg.Points(3), Shape: downTriangle{}}
+		left.Add(s)
+		ys = append(ys, s.extent()...)
+		name := "simulated BER"
+		if many {
+			name = c.label
+		}
+		legend.Add(name, s)
+		if pre >= 0 {
+			sp := tapSeries(c.points, pre)
+			sp.line = draw.LineStyle{Color: cl, Width: vg.Points(1.1), Dashes: preDashes}
+			sp.glyph = draw.GlyphStyle{Color: cl, Radius: vg.Points(2.4), Shape: ring{}}
+			sp.boundSty = s.boundSty
+			left.Add(sp)
+			ys = append(ys, sp.extent()...)
+			if !many {
+				legend.Add("pre-decoder BER", sp)
+			}
+		}
+		if frames {
+			fer := r.TapIndex(link.TapFER)
+			sf := tapSeries(c.points, fer)
+			sf.line = draw.LineStyle{Color: cl, Width: vg.Points(1.4)}
+			sf.glyph = draw.GlyphStyle{Color: cl, Radius: vg.Points(2.6), Shape: diamond{}}
+			sf.boundSty = s.boundSty
+			right.Add(sf)
+			fys = append(fys, sf.extent()...)
+			if !many {
+				legend.Add("simulated FER", sf)
+			}
+		}
+	}
+	// Theory curves are drawn after the measured ones so they stay visible through the bars, but
+	// they do not stretch the axis: at most two decades below the lowest measured figure.
+	var theoryY []float64
+	for k, name := range r.Theory {
+		for ci, c := range cs {
+			cl := theoryColour(ci, many)
+			s := &series{}
+			for _, p := range c.points {
+				s.x = append(s.x, p.Values[0])
+				v := math.NaN()
+				if k < len(p.Theory) && p.Theory[k] > 0 {
+					v = p.Theory[k]
+				}
+				s.y = append(s.y, v)
+				theoryY = append(theoryY, v)
+			}
+			s.line = draw.LineStyle{Color: cl, Width: vg.Points(1), Dashes: theoryDashes[k%len(theoryDashes)]}
+			left.Add(s)
+			if ci == 0 {
+				legend.Add("theory: "+name, &series{line: draw.LineStyle{Color: theoryCl, Width: s.line.Width, Dashes: s.line.Dashes}})
+			}
+		}
+	}
+	if many {
+		if pre >= 0 {
+			legend.Add("pre-decoder BER", &series{line: draw.LineStyle{Color: theoryCl, Width: vg.Points(1.1), Dashes: preDashes},
+				glyph: draw.GlyphStyle{Color: theoryCl, Radius: vg.Points(2.4), Shape: ring{}}})
+		}
+	}
+	if hasBound(r) {
+		legend.Add("no errors: "+confidence+" upper bound", boundKey{draw.GlyphStyle{Color: theoryCl, Radius: vg.Points(3), Shape: downTriangle{}}})
+	}
+	setY(left, ys, theoryY)
+	panels := []*plot.Plot{left}
+	if frames {
+		setY(right, fys, nil)
+		panels = append(panels, right)
+	}
+	for _, p := range panels {
+		setX(r, p)
+	}
+	w := 7.2 * vg.Inch
+	if frames {
+		w = 11 * vg.Inch
+	}
+	return &Figure{
+		Title:   r.Name,
+		Caption: caption(r),
+		Panels:  panels,
+		Legend:  legend,
+		Width:   w,
+		Height:  4.6 * vg.Inch,
+	}, nil
+}
+
+// theoryColour is neutral for a single curve, else the curve's own colour.
+func theoryColour(ci int, many bool) color.Color {
+	if many {
+		return colour(ci)
+	}
+	return theoryCl
+}
+
+func hasBound(r *result.Run) bool {
+	for _, p := range r.Points {
+		for _, t := range p.Taps {
+			if t.Trials > 0 && t.Errors == 0 && (t.Name == link.TapBER || t.Name == link.TapPre) {
+				return true
+			}
+		}
+	}
+	return false
+}
+
+// tapSeries is the estimate and interval of tap t along a curve; a point with no errors gives
+// its upper bound instead.
+func tapSeries(pts []result.Point, t int) *series {
+	s := &series{}
+	for _, p := range pts {
+		s.x = append(s.x, p.Values[0])
+		y, lo, hi, b := math.NaN(), math.NaN(), math.NaN(), math.NaN()
+		if t < len(p.Taps) && p.Taps[t].Trials > 0 {
+			tp := p.Taps[t]
+			if tp.Errors > 0 {
+				y, lo, hi = tp.Rate, tp.Low, tp.High
+			} else {
+				b = tp.High
+			}
+		}
+		s.y = append(s.y, y)
+		s.low = append(s.low, lo)
+		s.high = append(s.high, hi)
+		s.bound = append(s.bound, b)
+	}
+	return s
+}
+
+// extent are the y values the series needs to show.
+func (s *series) extent() []float64 {
+	var v []float64
+	for i := range s.x {
+		for _, y := range []float64{s.y[i], s.low[i], s.high[i], s.bound[i]} {
+			if y > 0 {
+				v = append(v, y)
+			}
+		}
+	}
+	return v
+}
+
+// setY sets a log axis over whole decades that holds every measured figure, and the theory
+// down to two decades below them.
+func setY(p *plot.Plot, measured, theory []float64) {
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, v := range measured {
+		lo, hi = math.Min(lo, v), math.Max(hi, v)
+	}
+	if math.IsInf(lo, 1) {
+		lo, hi = 1e-6, 1
+	}
+	floor := lo / 100
+	for _, v := range theory {
+		if v > 0 {
+			lo, hi = math.Min(lo, math.Max(v, floor)), math.Max(hi, v)
+		}
+	}
+	p.Y.Min, p.Y.Max = decadeRange(lo, math.Min(hi, 1))
+	p.Y.Scale = plot.LogScale{}
+	p.Y.Tick.Marker = decadeTicks{}
+	p.Y.Label.Padding = decadeLabels{}.width(p.Y.Min, p.Y.Max) + vg.Points(3)
+	p.Add(decadeLabels{})
+}
+
+// setX spans the swept values with a little room, or the labels of a labelled parameter.
+func setX(r *result.Run, p *plot.Plot) {
+	p.X.Label.Text = AxisLabel(r.Params[0])
+	if len(r.Labels) > 0 && r.Labels[0] != nil {
+		p.X.Min, p.X.Max = -0.5, float64(len(r.Labels[0]))-0.5
+		p.X.Tick.Marker = labelTicks(r.Labels[0])
+		return
+	}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	var xs []float64
+	for _, pt := range r.Points {
+		lo, hi = math.Min(lo, pt.Values[0]), math.Max(hi, pt.Values[0])
+		xs = append(xs, pt.Values[0])
+	}
+	if t := sweepTicks(xs); t != nil {
+		p.X.Tick.Marker = t
+	}
+	room := 0.04 * (hi - lo)
+	if room == 0 {
+		room = 0.5
+	}
+	p.X.Min, p.X.Max = lo-room, hi+room
+}
+
+// panel is an empty panel in tally's look, y labelled label.
+func panel(_ *result.Run, label string) *plot.Plot {
+	p := plot.New()
+	p.BackgroundColor = nil
+	for _, a := range []*plot.Axis{&p.X, &p.Y} {
+		a.Label.TextStyle.Font = sans(10)
+		a.Label.TextStyle.Color = ink
+		a.Tick.Label.Font = sans(8.5)
+		a.Tick.Label.Color = ink
+		a.LineStyle = draw.LineStyle{Color: ink, Width: vg.Points(0.6)}
+		a.Tick.LineStyle = draw.LineStyle{Color: ink, Width: vg.Points(0.5)}
+		a.Tick.Length = vg.Points(4)
+		a.Padding = 0
+	}
+	p.Y.Label.Text = label
+	p.Add(area{}, grid{})
+	return p
+}
+
+// grid is hairlines at the labelled ticks, drawn over the paper and under the data.
+type grid struct{}
+
+func (grid) Plot(c draw.Canvas, p *plot.Plot) {
+	tx, ty := p.Transforms(&c)
+	st := draw.LineStyle{Color: rule, Width: vg.Points(0.5)}
+	for _, t := range p.X.Tick.Marker.Ticks(p.X.Min, p.X.Max) {
+		if !t.IsMinor() {
+			if x := tx(t.Value); x > c.Min.X && x < c.Max.X {
+				c.StrokeLine2(st, x, c.Min.Y, x, c.Max.Y)
+			}
+		}
+	}
+	for _, t := range p.Y.Tick.Marker.Ticks(p.Y.Min, p.Y.Max) {
+		if !t.IsMinor() {
+			if y := ty(t.Value); y > c.Min.Y && y < c.Max.Y {
+				c.StrokeLine2(st, c.Min.X, y, c.Max.X, y)
+			}
+		}
+	}
+}
+
+// caption says how the figures were made: script, seed, the interval methods the BER tap used
+// (a point ended by an error count gets one valid for that rule), level and points.
+func caption(r *result.Run) string {
+	var methods []string
+	seen := map[string]bool{}
+	ber := r.TapIndex(link.TapBER)
+	for _, p := range r.Points {
+		if ber >= 0 && ber < len(p.Taps) {
+			if m := p.Taps[ber].Method; m != "" && !seen[m] {
+				seen[m] = true
+				methods = append(methods, m)
+			}
+		}
+	}
+	if len(methods) == 0 {
+		methods = append(methods, r.Method)
+	}
+	var parts []string
+	if r.Script != "" {
+		parts = append(parts, r.Script)
+	}
+	parts = append(parts, fmt.Sprintf("seed %d", r.Seed),
+		fmt.Sprintf("%s intervals at %g %%", strings.Join(methods, " / "), 100*r.Confidence),
+		fmt.Sprintf("%d points", len(r.Points)))
+	if r.Interrupted {
+		parts = append(parts, "interrupted: last point incomplete")
+	}
+	return strings.Join(parts, " · ")
+}

@@ -1,0 +1,204 @@
+package watch
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"tally/blocks/compare"
+	"tally/blocks/link"
+	"tally/runtime/result"
+)
+
+// Changes says, one line per point, how the BER moved from prev to next and whether the move is
+// more than chance: Fisher's exact test on the two counts (compare.Proportions), with Holm's
+// correction across the points so that a sweep of twenty points does not flag one by chance
+// at the 5 % level. Then the move of each target crossing (the Eb/N0 at a BER of 10⁻⁵, say).
+//
+// Two runs with the same seed share their random streams, so unchanged points come out with
+// identical counts and changed ones are correlated; the test assumes independent samples and
+// is then conservative. Errors that come in bursts (behind a decoder) make it too eager.
+func Changes(prev, next *result.Run) []string {
+	type row struct {
+		label string
+		stop  string
+		old   *result.Tap
+		new   *result.Tap
+		p     float64
+		test  bool
+	}
+	ob, nb := prev.TapIndex(link.TapBER), next.TapIndex(link.TapBER)
+	if ob < 0 || nb < 0 {
+		return nil
+	}
+	old := map[string]*result.Tap{}
+	for i := range prev.Points {
+		p := &prev.Points[i]
+		if ob < len(p.Taps) && sameParams(prev, next) {
+			old[key(prev, *p)] = &p.Taps[ob]
+		}
+	}
+	var rows []row
+	seen := map[string]bool{}
+	for i := range next.Points {
+		p := &next.Points[i]
+		if nb >= len(p.Taps) {
+			continue
+		}
+		k := key(next, *p)
+		seen[k] = true
+		r := row{label: label(next, *p), stop: p.Stop, old: old[k], new: &p.Taps[nb]}
+		if r.old != nil && r.old.Trials > 0 && r.new.Trials > 0 && !(r.old.Errors == r.new.Errors && r.old.Trials == r.new.Trials) {
+			if res, err := compare.Proportions(r.old.Errors, r.old.Trials, r.new.Errors, r.new.Trials); err == nil {
+				r.p, r.test = res.P, true
+			}
+		}
+		rows = append(rows, r)
+	}
+	var ps []float64
+	for _, r := range rows {
+		if r.test {
+			ps = append(ps, r.p)
+		}
+	}
+	alpha := 1 - next.Confidence
+	if !(alpha > 0 && alpha < 1) {
+		alpha = 0.05
+	}
+	adjusted := compare.Holm(ps)
+	width := 0
+	for _, r := range rows {
+		width = max(width, len(r.label))
+	}
+	var lines []string
+	j := 0
+	for _, r := range rows {
+		s := fmt.Sprintf("%-*s  ", width, r.label)
+		switch {
+		case r.new.Trials == 0:
+			s += "not run this time (" + r.stop + ")"
+		case r.old == nil:
+			s += fmt.Sprintf("ber %.3g  (new point)", r.new.Rate)
+		case r.old.Errors == r.new.Errors && r.old.Trials == r.new.Trials:
+			s += fmt.Sprintf("ber %.3g  same counts", r.new.Rate)
+		case !r.test:
+			s += fmt.Sprintf("ber %.3g → %.3g", r.old.Rate, r.new.Rate)
+		default:
+			s += fmt.Sprintf("ber %.3g → %.3g", r.old.Rate, r.new.Rate)
+			if r.old.Errors > 0 && r.new.Errors > 0 {
+				s += fmt.Sprintf(" (×%.3g)", r.new.Rate/r.old.Rate)
+			}
+			if adjusted[j] <= alpha {
+				s += fmt.Sprintf("  CHANGED, p = %.2g", adjusted[j])
+			} else {
+				s += fmt.Sprintf("  within chance, p = %.2g", adjusted[j])
+			}
+			j++
+		}
+		lines = append(lines, s)
+	}
+	same := len(rows) > 1
+	for _, r := range rows {
+		same = same && r.old != nil && r.old.Errors == r.new.Errors && r.old.Trials == r.new.Trials
+	}
+	if same {
+		lines = []string{fmt.Sprintf("same counts at all %d points", len(rows))}
+	}
+	if len(ps) > 0 {
+		note := fmt.Sprintf("p: Fisher's exact test on the BER counts, two-sided; CHANGED at p ≤ %g", alpha)
+		if len(ps) > 1 {
+			note += fmt.Sprintf(", Holm-adjusted over %d points", len(ps))
+		}
+		lines = append(lines, note)
+	}
+	for i := range prev.Points {
+		if k := key(prev, prev.Points[i]); !seen[k] && sameParams(prev, next) {
+			lines = append(lines, fmt.Sprintf("%-*s  (no longer swept)", width, label(prev, prev.Points[i])))
+		}
+	}
+	lines = append(lines, targetChanges(prev, next)...)
+	return lines
+}
+
+// targetChanges compares the swept value at each target crossing found in both runs.
+func targetChanges(prev, next *result.Run) []string {
+	if len(next.Params) == 0 {
+		return nil
+	}
+	x := next.Params[0]
+	unit := ""
+	if strings.HasSuffix(strings.ToLower(x), "_db") {
+		unit = " dB"
+	}
+	var lines []string
+	for _, t := range next.Targets {
+		var o *result.Target
+		for i := range prev.Targets {
+			pt := &prev.Targets[i]
+			if pt.Tap == t.Tap && pt.Rate == t.Rate && pt.Curve == t.Curve {
+				o = pt
+			}
+		}
+		where := fmt.Sprintf("%s = %g", t.Tap, t.Rate)
+		if t.Curve != "" {
+			where += " (" + t.Curve + ")"
+		}
+		switch {
+		case o == nil || !o.Found && !t.Found:
+			continue
+		case !t.Found:
+			lines = append(lines, fmt.Sprintf("%s: was at %s %.2f, now not bracketed by the sweep", where, x, o.X))
+		case !o.Found:
+			lines = append(lines, fmt.Sprintf("%s: now at %s %.2f (was not bracketed)", where, x, t.X))
+		default:
+			d := t.X - o.X
+			s := fmt.Sprintf("%s at %s: %.2f → %.2f (%s%.2f%s)", where, x, o.X, t.X, sign(d), math.Abs(d), unit)
+			// Intervals that do not overlap say the crossing moved beyond its uncertainty.
+			if t.High < o.Low || o.High < t.Low {
+				s += ", beyond both intervals"
+			}
+			lines = append(lines, s)
+		}
+	}
+	return lines
+}
+
+func sign(d float64) string {
+	if d < 0 {
+		return "−"
+	}
+	return "+"
+}
+
+// sameParams reports whether two runs sweep the same parameters, so points can be matched.
+func sameParams(a, b *result.Run) bool {
+	if len(a.Params) != len(b.Params) {
+		return false
+	}
+	for i := range a.Params {
+		if a.Params[i] != b.Params[i] {
+			return false
+		}
+	}
+	return true
+}
+
+func key(r *result.Run, p result.Point) string {
+	parts := make([]string, len(r.Params))
+	for i := range r.Params {
+		if i < len(p.Values) {
+			parts[i] = r.Value(p, i)
+		}
+	}
+	return strings.Join(parts, "\x00")
+}
+
+func label(r *result.Run, p result.Point) string {
+	parts := make([]string, len(r.Params))
+	for i, n := range r.Params {
+		if i < len(p.Values) {
+			parts[i] = n + "=" + r.Value(p, i)
+		}
+	}
+	return strings.Join(parts, " ")
+}

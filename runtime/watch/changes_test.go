@@ -1,0 +1,58 @@
+package watch
+
+import (
+	"fmt"
+	"strings"
+	"testing"
+
+	"tally/blocks/compare"
+	"tally/runtime/result"
+)
+
+func counts(seed uint64, ks ...int64) *result.Run {
+	r := &result.Run{Params: []string{"ebn0_db"}, Taps: []string{"ber", "fer"}, Confidence: 0.95, Seed: seed}
+	for i, k := range ks {
+		r.Points = append(r.Points, result.Point{Values: []float64{float64(2 * i)},
+			Taps: []result.Tap{{Name: "ber", Trials: 1e6, Errors: k, Rate: float64(k) / 1e6}, {Name: "fer", Trials: 100}}})
+	}
+	return r
+}
+
+func TestChangesSameCounts(t *testing.T) {
+	got := Changes(counts(1, 100, 20), counts(1, 100, 20))
+	if len(got) != 1 || got[0] != "same counts at all 2 points" {
+		t.Errorf("Changes = %q", got)
+	}
+}
+
+// A tripled BER is flagged, a 4 % move is not; the p printed is Fisher's, Holm-adjusted over
+// the two points compared.
+func TestChangesFlagsRealMoves(t *testing.T) {
+	got := strings.Join(Changes(counts(1, 100, 100), counts(2, 300, 104)), "\n")
+	a, _ := compare.Proportions(100, 1e6, 300, 1e6)
+	b, _ := compare.Proportions(100, 1e6, 104, 1e6)
+	adj := compare.Holm([]float64{a.P, b.P})
+	for _, want := range []string{
+		fmt.Sprintf("ebn0_db=0  ber 0.0001 → 0.0003 (×3)  CHANGED, p = %.2g", adj[0]),
+		fmt.Sprintf("ebn0_db=2  ber 0.0001 → 0.000104 (×1.04)  within chance, p = %.2g", adj[1]),
+		"Holm-adjusted over 2 points",
+	} {
+		if !strings.Contains(got, want) {
+			t.Errorf("Changes lacks %q:\n%s", want, got)
+		}
+	}
+}
+
+func TestChangesPointsAndTargets(t *testing.T) {
+	prev, next := counts(1, 100, 20), counts(1, 100, 20, 3)
+	prev.Points = append(prev.Points, result.Point{Values: []float64{9}, Taps: []result.Tap{{Name: "ber", Trials: 10, Errors: 1}}})
+	prev.Targets = []result.Target{{Tap: "ber", Rate: 1e-5, Found: true, X: 6.8, Low: 6.7, High: 6.9}}
+	next.Targets = []result.Target{{Tap: "ber", Rate: 1e-5, Found: true, X: 7.1, Low: 7.0, High: 7.2}}
+	got := strings.Join(Changes(prev, next), "\n")
+	for _, want := range []string{"ebn0_db=4  ber 3e-06  (new point)", "ebn0_db=9  (no longer swept)",
+		"ber = 1e-05 at ebn0_db: 6.80 → 7.10 (+0.30 dB), beyond both intervals"} {
+		if !strings.Contains(got, want) {
+			t.Errorf("Changes lacks %q:\n%s", want, got)
+		}
+	}
+}
