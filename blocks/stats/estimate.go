@@ -1,10 +1,22 @@
-// Package stats turns error counts into estimates and confidence intervals.
+// Package stats turns error counts into estimates and confidence intervals, weighs the
+// evidence for a claim about a rate, and reads a swept BER curve at a target.
+//
+// Three interval methods for a count of k errors in n trials (bits or frames) are offered by
+// name: "clopper-pearson" (exact, the default), "wilson" and "jeffreys". A point ended by an
+// error-count stop rule is inverse binomial sampling and gets its own estimator and exact
+// interval ("negative-binomial", see InverseSampling; ForFrames picks it). With no errors
+// every method gives a one-sided upper bound and a lower limit of 0; with every trial in
+// error, a one-sided lower bound and an upper limit of 1. Counts up to 2⁶² are handled
+// (see beta.go for how, past gonum's range).
+//
+// Evidence is the anytime-valid test behind the stop rules that claim a rate below or above
+// a target. AtTarget reads the swept value where a curve reaches a BER, with an interval,
+// and Penalty its distance from a theory curve.
 package stats
 
 import (
 	"fmt"
-
-	"gonum.org/v1/gonum/stat/distuv"
+	"math"
 )
 
 // Estimate is a rate with its confidence interval.
@@ -15,32 +27,11 @@ type Estimate struct {
 	Method string  // interval method, as recorded in run.json
 }
 
-// ClopperPearson is the exact binomial interval (Clopper and Pearson, Biometrika, 1934) from
-// Beta quantiles: low = B⁻¹(α/2; k, n−k+1), high = B⁻¹(1−α/2; k+1, n−k). With k = 0 the upper
-// limit is one-sided, B⁻¹(1−α; 1, n), and low = 0.
-func ClopperPearson(k, n int64, confidence float64) (Estimate, error) {
-	if err := checkCount(k, n, confidence); err != nil {
-		return Estimate{}, err
-	}
-	e := Estimate{Method: "clopper-pearson"}
-	if n == 0 {
-		return Estimate{Rate: 0, Low: 0, High: 1, Method: e.Method}, nil
-	}
-	alpha := 1 - confidence
-	e.Rate = float64(k) / float64(n)
-	kf, nf := float64(k), float64(n)
-	switch {
-	case k == 0:
-		e.High = distuv.Beta{Alpha: 1, Beta: nf}.Quantile(1 - alpha)
-	case k == n:
-		e.Low = distuv.Beta{Alpha: kf, Beta: 1}.Quantile(alpha)
-		e.High = 1
-	default:
-		e.Low = distuv.Beta{Alpha: kf, Beta: nf - kf + 1}.Quantile(alpha / 2)
-		e.High = distuv.Beta{Alpha: kf + 1, Beta: nf - kf}.Quantile(1 - alpha/2)
-	}
-	return e, nil
-}
+// Contains reports whether p lies in the closed interval [Low, High].
+func (e Estimate) Contains(p float64) bool { return e.Low <= p && p <= e.High }
+
+// none is the estimate of a count with no trials: nothing is known.
+func none(method string) Estimate { return Estimate{Rate: 0, Low: 0, High: 1, Method: method} }
 
 func checkCount(k, n int64, confidence float64) error {
 	switch {
@@ -53,3 +44,18 @@ func checkCount(k, n int64, confidence float64) error {
 	}
 	return nil
 }
+
+// numeric turns a panic of the numerical routines (gonum's panic on some extreme arguments,
+// such as a confidence of 1e-300) into an error, and so does a result that is not a number.
+func numeric(e *Estimate, err *error) {
+	if v := recover(); v != nil {
+		*e, *err = Estimate{}, fmt.Errorf("stats: cannot compute this interval (%v)", v)
+		return
+	}
+	if *err == nil && (math.IsNaN(e.Rate) || math.IsNaN(e.Low) || math.IsNaN(e.High)) {
+		*e, *err = Estimate{}, fmt.Errorf("stats: cannot compute this interval (%s: not a number)", e.Method)
+	}
+}
+
+// clamp keeps a limit inside [0, 1] (quantile routines may step a hair outside).
+func clamp(v float64) float64 { return math.Max(0, math.Min(1, v)) }

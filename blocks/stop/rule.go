@@ -2,6 +2,18 @@
 // met. Rules are judged by the engine on the committed prefix of frames only (frames in order,
 // none missing), so where a point stops never depends on the number of workers, and a replay of
 // the committed counts (resume, merge) reaches the same decision.
+//
+// Point rules, by the word the table's stop column shows when they end a point:
+//
+//	errors     Errors(n): a tap counted n errors (inverse sampling; see stats.InverseSampling)
+//	bits       Bits(n): the BER tap counted n bits
+//	time       Time(d): wall time d (the one rule a replay cannot see)
+//	precision  Precision(r): High/Low ≤ r
+//	below      Below(t): High < t
+//	above      Above(t): Low > t
+//
+// Off the BER tap (.Tap("fer")) the word is prefixed with the tap: "fer_errors". Sweep rules
+// (SweepRule: Floor, Budget) decide between points whether the next one is worth running.
 package stop
 
 import (

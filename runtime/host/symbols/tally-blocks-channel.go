@@ -20,6 +20,7 @@ func init() {
 		"EbN0":      reflect.ValueOf(channel.EbN0),
 		"EsN0":      reflect.ValueOf(channel.EsN0),
 		"KnownGain": reflect.ValueOf(channel.KnownGain),
+		"MainPath":  reflect.ValueOf(channel.MainPath),
 		"Multipath": reflect.ValueOf(channel.Multipath),
 		"Rayleigh":  reflect.ValueOf(channel.Rayleigh),
 		"Rician":    reflect.ValueOf(channel.Rician),

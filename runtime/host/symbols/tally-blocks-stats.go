@@ -15,8 +15,13 @@ import (
 func init() {
 	Symbols["tally/blocks/stats/stats"] = map[string]reflect.Value{
 		// function, constant and variable definitions
+		"AtTarget":        reflect.ValueOf(stats.AtTarget),
+		"Bursty":          reflect.ValueOf(stats.Bursty),
 		"ClopperPearson":  reflect.ValueOf(stats.ClopperPearson),
+		"Clustered":       reflect.ValueOf(stats.Clustered),
 		"Default":         reflect.ValueOf(constant.MakeFromLiteral("\"clopper-pearson\"", token.STRING, 0)),
+		"Dispersion":      reflect.ValueOf(stats.Dispersion),
+		"Evidence":        reflect.ValueOf(stats.Evidence),
 		"ForFrames":       reflect.ValueOf(stats.ForFrames),
 		"ForPoint":        reflect.ValueOf(stats.ForPoint),
 		"Interval":        reflect.ValueOf(stats.Interval),
@@ -25,10 +30,13 @@ func init() {
 		"Jeffreys":        reflect.ValueOf(stats.Jeffreys),
 		"MethodNamed":     reflect.ValueOf(stats.MethodNamed),
 		"Methods":         reflect.ValueOf(&stats.Methods).Elem(),
+		"Penalty":         reflect.ValueOf(stats.Penalty),
 		"Wilson":          reflect.ValueOf(stats.Wilson),
 
 		// type definitions
+		"Crossing": reflect.ValueOf((*stats.Crossing)(nil)),
 		"Estimate": reflect.ValueOf((*stats.Estimate)(nil)),
+		"Loss":     reflect.ValueOf((*stats.Loss)(nil)),
 		"Method":   reflect.ValueOf((*stats.Method)(nil)),
 	}
 }

@@ -6,6 +6,8 @@
 package symbols
 
 import (
+	"go/constant"
+	"go/token"
 	"reflect"
 	"tally/blocks/stop"
 )
@@ -13,17 +15,34 @@ import (
 func init() {
 	Symbols["tally/blocks/stop/stop"] = map[string]reflect.Value{
 		// function, constant and variable definitions
-		"Bits":   reflect.ValueOf(stop.Bits),
-		"Errors": reflect.ValueOf(stop.Errors),
+		"Above":             reflect.ValueOf(stop.Above),
+		"Below":             reflect.ValueOf(stop.Below),
+		"Bits":              reflect.ValueOf(stop.Bits),
+		"Budget":            reflect.ValueOf(stop.Budget),
+		"DefaultConfidence": reflect.ValueOf(constant.MakeFromLiteral("0.9499999999999999999891579782751449556599254719913005828857421875", token.FLOAT, 0)),
+		"Errors":            reflect.ValueOf(stop.Errors),
+		"Evidence":          reflect.ValueOf(stop.Evidence),
+		"Floor":             reflect.ValueOf(stop.Floor),
+		"Precision":         reflect.ValueOf(stop.Precision),
+		"Time":              reflect.ValueOf(stop.Time),
 
 		// type definitions
+		"BitBudget":   reflect.ValueOf((*stop.BitBudget)(nil)),
 		"BitCap":      reflect.ValueOf((*stop.BitCap)(nil)),
 		"ErrorTarget": reflect.ValueOf((*stop.ErrorTarget)(nil)),
+		"FloorRule":   reflect.ValueOf((*stop.FloorRule)(nil)),
+		"Outcome":     reflect.ValueOf((*stop.Outcome)(nil)),
 		"Progress":    reflect.ValueOf((*stop.Progress)(nil)),
 		"Rule":        reflect.ValueOf((*stop.Rule)(nil)),
+		"ShownAbove":  reflect.ValueOf((*stop.ShownAbove)(nil)),
+		"ShownBelow":  reflect.ValueOf((*stop.ShownBelow)(nil)),
+		"SweepRule":   reflect.ValueOf((*stop.SweepRule)(nil)),
+		"TimeLimit":   reflect.ValueOf((*stop.TimeLimit)(nil)),
+		"WidthRatio":  reflect.ValueOf((*stop.WidthRatio)(nil)),
 
 		// interface wrapper definitions
-		"_Rule": reflect.ValueOf((*_tally_blocks_stop_Rule)(nil)),
+		"_Rule":      reflect.ValueOf((*_tally_blocks_stop_Rule)(nil)),
+		"_SweepRule": reflect.ValueOf((*_tally_blocks_stop_SweepRule)(nil)),
 	}
 }
 
@@ -39,4 +58,14 @@ func (W _tally_blocks_stop_Rule) Met(p *stop.Progress) bool {
 }
 func (W _tally_blocks_stop_Rule) Name() string {
 	return W.WName()
+}
+
+// _tally_blocks_stop_SweepRule is an interface wrapper for SweepRule type
+type _tally_blocks_stop_SweepRule struct {
+	IValue interface{}
+	WSkip  func(done []stop.Outcome, next float64) (skip bool, why string)
+}
+
+func (W _tally_blocks_stop_SweepRule) Skip(done []stop.Outcome, next float64) (skip bool, why string) {
+	return W.WSkip(done, next)
 }
