@@ -35,10 +35,11 @@ type Point struct {
 	Values  []float64 `json:"values"` // one per Params
 	Frames  int64     `json:"frames"`
 	Taps    []Tap     `json:"taps"` // one per Run.Taps
-	Stop    string    `json:"stop"` // the rule that ended the point, "interrupted", or "skipped: …"
+	Stop    string    `json:"stop"` // the rule that ended the point, "interrupted", or "skipped"
 	Theory  []float64 `json:"theory"`
 	Seconds float64   `json:"wall_seconds"`
 	BitRate float64   `json:"bits_per_second"`
+	Note    string    `json:"note,omitempty"` // why a point was skipped
 }
 
 // Tap is what one tap counted at a point, with its estimate.
@@ -50,6 +51,10 @@ type Tap struct {
 	Low    float64 `json:"ci_low"`
 	High   float64 `json:"ci_high"`
 	Method string  `json:"method"`
+	Absent bool    `json:"absent,omitempty"` // the point's link has no such tap
+	// Dispersion is the spread of errors between frames against independent errors (1); the
+	// interval is widened ("+clustered" in Method) when it is shown above 1. 0: not judged.
+	Dispersion float64 `json:"dispersion,omitempty"`
 }
 
 // Target is the swept value at which a tap crosses a target error rate.
@@ -61,9 +66,14 @@ type Target struct {
 	X       float64 `json:"x"`
 	Low     float64 `json:"x_low"`
 	High    float64 `json:"x_high"`
-	Against string  `json:"against,omitempty"` // theory curve compared with
-	Penalty float64 `json:"penalty_db,omitempty"`
-	Note    string  `json:"note,omitempty"`
+	Against string  `json:"against,omitempty"`    // theory curve compared with
+	Penalty float64 `json:"penalty_db,omitempty"` // X minus the theory's value at the target
+	TheoryX float64 `json:"theory_x,omitempty"`   // where the theory curve reaches the target
+	// Gain is how much less of the swept value (dB) this curve needs than the first curve,
+	// GainOver names it: the coding gain when the curves are uncoded and coded links.
+	Gain     float64 `json:"gain_db,omitempty"`
+	GainOver string  `json:"gain_over,omitempty"`
+	Note     string  `json:"note,omitempty"`
 }
 
 // Value is a point's value of parameter i as the table shows it: its label, or the number.

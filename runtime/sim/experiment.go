@@ -29,6 +29,7 @@ type Experiment struct {
 	params     []param
 	build      func(p Point) *link.Link
 	rules      []stop.Rule
+	sweepRules []stop.SweepRule
 	theory     []curve
 	targets    []target
 	confidence float64

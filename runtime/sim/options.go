@@ -9,6 +9,7 @@ import (
 	"os/signal"
 	"runtime"
 
+	"tally/runtime/longrun"
 	"tally/runtime/result"
 )
 
@@ -31,8 +32,12 @@ type Options struct {
 	// Where, set by the host, names the script statement being run ("file:line:col"), so a
 	// mistake found during Run can point at the script.
 	Where func() string
-	// Extra holds the long-run settings (resume, shard) handled by the run layer.
+	// Extra is free-form, for settings of the run layer that have no field yet.
 	Extra map[string]string
+	// Long are the checkpoint, resume, shard and merge settings; nil keeps no checkpoint.
+	Long *longrun.Settings
+
+	long *longRun // the long-run state of the experiment running
 }
 
 // Hosted tells the package that scripts run in the interpreter host: from then on mistakes
@@ -52,6 +57,7 @@ func commandLine() *Options {
 	fs.IntVar(&o.Workers, "workers", 0, "parallel workers (0: all cores)")
 	seed := fs.Uint64("seed", DefaultSeed, "random seed")
 	fs.BoolVar(&o.Quiet, "quiet", false, "no progress output")
+	long := longrun.Flags(fs)
 	if err := fs.Parse(os.Args[1:]); err != nil {
 		if err == flag.ErrHelp {
 			os.Exit(0)
@@ -63,6 +69,11 @@ func commandLine() *Options {
 			o.Seed, o.SeedSet = *seed, true
 		}
 	})
+	var err error
+	if o.Long, err = long(); err != nil {
+		fmt.Fprintln(os.Stderr, err)
+		os.Exit(2)
+	}
 	if _, file, _, ok := runtime.Caller(2); ok {
 		scriptFile = file
 		o.Script = file

@@ -6,9 +6,11 @@ import (
 	"encoding/hex"
 	"errors"
 	"fmt"
+	"math"
 	"os"
 	"path/filepath"
 	goruntime "runtime"
+	"slices"
 	"strings"
 	"time"
 
@@ -22,6 +24,11 @@ import (
 
 // Version is tally's version, recorded in every run record.
 const Version = "0.1.0"
+
+// burstSignificance is the level of the index-of-dispersion test above which a tap's errors
+// count as bursty and its interval is widened: small, so independent errors are almost never
+// widened by chance.
+const burstSignificance = 0.001
 
 // ErrInterrupted is the error of a run ended by Ctrl-C (its finished points are written).
 var ErrInterrupted = errors.New("run interrupted")
@@ -101,15 +108,16 @@ func (x *Experiment) Execute() (*result.Run, error) {
 	}
 	points := x.grid()
 	for _, pt := range points {
+		if skip, why := x.skip(run, pt); skip {
+			run.Points = append(run.Points, x.skipped(run, pt, why))
+			x.opts.logf("%s  skipped: %s\n", pt.text(), why)
+			continue
+		}
 		rp, err := x.runPoint(ctx, pt, rules, seed, workers)
 		if err != nil {
 			return nil, err
 		}
-		if run.Taps == nil {
-			for _, t := range rp.Taps {
-				run.Taps = append(run.Taps, t.Name)
-			}
-		}
+		run.Taps = unionTaps(run.Taps, rp.Taps)
 		run.Points = append(run.Points, rp)
 		x.report(pt, rp)
 		if rp.Stop == engine.Interrupted {
@@ -118,6 +126,7 @@ func (x *Experiment) Execute() (*result.Run, error) {
 		}
 	}
 	run.End = time.Now().UTC()
+	alignTaps(run)
 	x.findTargets(run)
 	if run.Interrupted {
 		return run, ErrInterrupted
@@ -144,7 +153,9 @@ func (x *Experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 	if where == nil {
 		where = func() string { return scriptPos(callers(5)) }
 	}
-	out, err := engine.Run(ctx, engine.Spec{Point: pt.Index, Build: build, Rules: rules, Seed: seed, Workers: workers, Where: where})
+	spec := engine.Spec{Point: pt.Index, Build: build, Rules: rules, Seed: seed, Workers: workers, Where: where}
+	// runLong (longrun.go) adds the checkpoint, shard or replay around the engine run.
+	out, err := x.runLong(pt, spec, func(s engine.Spec) (engine.Outcome, error) { return x.runEngine(ctx, pt, rules, s) })
 	if err != nil {
 		return rp, err
 	}
@@ -154,12 +165,24 @@ func (x *Experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		if et, ok := out.Rule.(*stop.ErrorTarget); ok && et.On == name {
 			target = et.Count
 		}
-		est, err := stats.ForPoint(out.Counts[i], x.confidence, x.method, target)
+		c := out.Counts[i]
+		est, err := stats.ForPoint(c, x.confidence, x.method, target)
 		if err != nil {
 			return rp, err
 		}
-		rp.Taps = append(rp.Taps, result.Tap{Name: name, Trials: out.Counts[i].Trials, Errors: out.Counts[i].Errors,
-			Rate: est.Rate, Low: est.Low, High: est.High, Method: est.Method})
+		// Errors shown to come in bursts break the independence every binomial interval rests
+		// on: widen the interval by the frames' dispersion rather than report it too narrow.
+		if stats.Bursty(c, burstSignificance) {
+			if est, err = stats.Clustered(c, est, x.confidence, x.method); err != nil {
+				return rp, err
+			}
+		}
+		d := stats.Dispersion(c)
+		if math.IsNaN(d) {
+			d = 0
+		}
+		rp.Taps = append(rp.Taps, result.Tap{Name: name, Trials: c.Trials, Errors: c.Errors,
+			Rate: est.Rate, Low: est.Low, High: est.High, Method: est.Method, Dispersion: d})
 	}
 	if rp.Seconds > 0 && len(rp.Taps) > 0 {
 		rp.BitRate = float64(rp.Taps[0].Trials) / rp.Seconds
@@ -168,6 +191,34 @@ func (x *Experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		rp.Theory = append(rp.Theory, c.fn(pt))
 	}
 	return rp, nil
+}
+
+// unionTaps adds the tap names of a point not yet in names: curves of one run may count
+// different taps (an uncoded curve has no pre-FEC tap).
+func unionTaps(names []string, taps []result.Tap) []string {
+	for _, t := range taps {
+		if !slices.Contains(names, t.Name) {
+			names = append(names, t.Name)
+		}
+	}
+	return names
+}
+
+// alignTaps puts every point's taps in the run's order, marking those its link did not count.
+func alignTaps(run *result.Run) {
+	for i := range run.Points {
+		p := &run.Points[i]
+		aligned := make([]result.Tap, len(run.Taps))
+		for k, name := range run.Taps {
+			aligned[k] = result.Tap{Name: name, Absent: true}
+			for _, t := range p.Taps {
+				if t.Name == name {
+					aligned[k] = t
+				}
+			}
+		}
+		p.Taps = aligned
+	}
 }
 
 // grid lists the points: the first parameter varies fastest, so each curve's points are
@@ -194,14 +245,7 @@ func (x *Experiment) grid() []Point {
 }
 
 func (x *Experiment) report(pt Point, rp result.Point) {
-	var b strings.Builder
-	for _, n := range pt.Names {
-		fmt.Fprintf(&b, "%s=%s ", n, pt.Label(n))
-	}
-	t := rp.Taps[0]
-	fmt.Fprintf(&b, " bits=%d errors=%d ber=%.3g [%.3g, %.3g] stop=%s  %.1f Mbit/s\n",
-		t.Trials, t.Errors, t.Rate, t.Low, t.High, rp.Stop, rp.BitRate/1e6)
-	x.opts.logf("%s", b.String())
+	x.opts.logf("%s\n", finishedLine(pt, rp))
 }
 
 type curveView struct {
@@ -234,13 +278,23 @@ func (x *Experiment) labels() [][]string {
 }
 
 func (x *Experiment) write(r *result.Run) error {
+	skip, err := x.finishLong(r) // a shard run saves its shard file instead of the outputs
+	if err != nil {
+		return err
+	}
 	if x.opts.Done != nil {
 		if err := x.opts.Done(r); err != nil {
 			return err
 		}
 	}
+	if skip {
+		return nil
+	}
 	dir := OutputDir(x.opts.Script)
-	return output.Write(dir, r)
+	if err := output.Write(dir, r); err != nil {
+		return err
+	}
+	return x.writtenLong(r)
 }
 
 // OutputDir is the folder beside a script that holds its outputs: dir/<name>.go → dir/<name>.

@@ -1,0 +1,66 @@
+package sim
+
+import (
+	"fmt"
+
+	"tally/blocks/link"
+	"tally/blocks/stats"
+	"tally/blocks/stop"
+	"tally/runtime/result"
+)
+
+// StopSweep sets rules that end or thin each curve along the x axis: stop.Floor ends a curve
+// after its first point shown below a floor BER, stop.Budget skips points predicted to need
+// more bits than a cap. Skipped points stay in the table with stop "skipped" and the reason in
+// run.json.
+func (x *Experiment) StopSweep(rules ...stop.SweepRule) *Experiment {
+	for _, r := range rules {
+		if r == nil {
+			fail(fmt.Errorf("sim.StopSweep: a rule is nil"))
+		}
+		if c, ok := r.(link.Checked); ok {
+			if err := c.Err(); err != nil {
+				fail(err)
+			}
+		}
+	}
+	x.sweepRules = append(x.sweepRules, rules...)
+	return x
+}
+
+// skip asks the sweep rules about pt, given the finished points of its curve.
+func (x *Experiment) skip(run *result.Run, pt Point) (bool, string) {
+	if len(x.sweepRules) == 0 {
+		return false, ""
+	}
+	nx := len(x.params[0].values)
+	first := pt.Index - pt.Index%nx // first point of pt's curve
+	var done []stop.Outcome
+	for _, p := range run.Points[first:pt.Index] {
+		if p.Stop == "skipped" || len(p.Taps) == 0 {
+			continue
+		}
+		t := p.Taps[0]
+		done = append(done, stop.Outcome{X: p.Values[0], Tally: link.Tally{Trials: t.Trials, Errors: t.Errors},
+			Estimate: stats.Estimate{Rate: t.Rate, Low: t.Low, High: t.High, Method: t.Method}})
+	}
+	for _, r := range x.sweepRules {
+		if s, why := r.Skip(done, pt.Values[0]); s {
+			return true, why
+		}
+	}
+	return false, ""
+}
+
+// skipped is the table row of a point the sweep rules passed over: no counts, the widest
+// interval, and the theory values.
+func (x *Experiment) skipped(run *result.Run, pt Point, why string) result.Point {
+	rp := result.Point{Values: pt.Values, Stop: "skipped", Note: why}
+	for _, name := range run.Taps {
+		rp.Taps = append(rp.Taps, result.Tap{Name: name, High: 1, Method: x.method})
+	}
+	for _, c := range x.theory {
+		rp.Theory = append(rp.Theory, c.fn(pt))
+	}
+	return rp
+}
