@@ -3,6 +3,7 @@ package carrier
 import (
 	"testing"
 
+	"tally/blocks/internal/linktest"
 	"tally/blocks/link"
 	"tally/blocks/rng"
 )
@@ -13,10 +14,10 @@ func TestNoAllocation(t *testing.T) {
 		b    link.Block
 		bits int
 	}{{MPower(16), 1}, {MPower(16).Weight(2), 1}, {BlindPhase(16, 16), 2}, {BlindPhase(16, 16).Symmetric(4), 3}} {
-		m := newTestModem(c.bits, c.bits)
+		m := linktest.NewModem(c.bits, c.bits)
 		f := &link.Frame{}
 		r := rng.New(1)
-		_ = (&testSource{n: 512 * c.bits}).Process(f, r)
+		_ = (&linktest.Source{N: 512 * c.bits}).Process(f, r)
 		_ = m.Process(f, r)
 		_ = c.b.Process(f, r)
 		if a := testing.AllocsPerRun(20, func() { _ = c.b.Process(f, r) }); a != 0 {

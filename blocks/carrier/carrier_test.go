@@ -8,6 +8,7 @@ import (
 
 	"tally/blocks/channel"
 	"tally/blocks/impair"
+	"tally/blocks/internal/linktest"
 	"tally/blocks/link"
 	"tally/blocks/rng"
 	"tally/blocks/stats"
@@ -35,9 +36,9 @@ func TestTrackNoiseFree(t *testing.T) {
 		{"BlindPhase", BlindPhase(17, 32), 2, 0, half + 1e-9},
 		{"BlindPhase", BlindPhase(17, 32), 2, ft, half + 8*2*math.Pi*ft},
 	} {
-		m := newTestModem(c.bits, c.bits)
+		m := linktest.NewModem(c.bits, c.bits)
 		f := &link.Frame{}
-		src := &testSource{n: 4000 * c.bits}
+		src := &linktest.Source{N: 4000 * c.bits}
 		r := rng.New(1)
 		for _, b := range []link.Block{src, m, impair.Phase(20), impair.Frequency(c.ft), c.b} {
 			if err := b.Process(f, r); err != nil {
@@ -46,7 +47,7 @@ func TestTrackNoiseFree(t *testing.T) {
 		}
 		tx := &link.Frame{}
 		_ = src.Process(tx, rng.New(1))
-		m2 := newTestModem(c.bits, c.bits)
+		m2 := linktest.NewModem(c.bits, c.bits)
 		_ = m2.Process(tx, nil)
 		var worst float64
 		for i := 8; i < len(f.Samples)-8; i++ {
@@ -61,19 +62,19 @@ func TestTrackNoiseFree(t *testing.T) {
 // The ambiguity is a quarter turn for QPSK: an offset of 60° (beyond ±45°) leaves the signal
 // turned by exactly 90° (package doc).
 func TestAmbiguity(t *testing.T) {
-	m := newTestModem(1, 1)
+	m := linktest.NewModem(1, 1)
 	f := &link.Frame{}
-	src := &testSource{n: 200}
+	src := &linktest.Source{N: 200}
 	for _, b := range []link.Block{src, m, impair.Phase(60), MPower(8)} {
 		if err := b.Process(f, rng.New(2)); err != nil {
 			t.Fatal(err)
 		}
 	}
 	rx := append([]complex128(nil), f.Samples...)
-	tx := newTestModem(1, 1)
+	tx := linktest.NewModem(1, 1)
 	_ = tx.Process(f, nil) // f.Coded is unchanged: remap it
 	for i, y := range rx {
-		if d := cmplx.Phase(y*cmplx.Conj(tx.out[i])) * 180 / math.Pi; math.Abs(d-90) > 1e-6 {
+		if d := cmplx.Phase(y*cmplx.Conj(tx.Symbols()[i])) * 180 / math.Pi; math.Abs(d-90) > 1e-6 {
 			t.Fatalf("symbol %d turned by %.4f°, want 90°", i, d)
 		}
 	}
@@ -99,24 +100,24 @@ func closeToIdeal(t *testing.T, what string, e, n int64, ideal, worse float64) {
 // has teeth).
 func TestRecoveredBER(t *testing.T) {
 	const penalty = 0.5
-	qpsk := newTestModem(1, 1)
-	src := &testSource{n: 4096}
+	qpsk := linktest.NewModem(1, 1)
+	src := &linktest.Source{N: 4096}
 	const dbq = 6.0
 	off, pn := impair.Phase(25), impair.PhaseNoise(1e-4)
-	e, n := ber(t, 31, 40, src, qpsk, off, pn, channel.AWGN(dbq), MPower(32), demod{qpsk})
-	closeToIdeal(t, "QPSK, M-th power", e, n, berQPSK(dbq), berQPSK(dbq-penalty))
-	e, n = ber(t, 31, 10, src, qpsk, off, pn, channel.AWGN(dbq), demod{qpsk})
-	if r := float64(e) / float64(n); r < 3*berQPSK(dbq) {
+	e, n := linktest.BER(t, 31, 40, src, qpsk, off, pn, channel.AWGN(dbq), MPower(32), qpsk.Demod())
+	closeToIdeal(t, "QPSK, M-th power", e, n, linktest.BERQPSK(dbq), linktest.BERQPSK(dbq-penalty))
+	e, n = linktest.BER(t, 31, 10, src, qpsk, off, pn, channel.AWGN(dbq), qpsk.Demod())
+	if r := float64(e) / float64(n); r < 3*linktest.BERQPSK(dbq) {
 		t.Errorf("QPSK without recovery: BER %.3g not clearly above theory", r)
 	}
 
-	qam := newTestModem(2, 2)
+	qam := linktest.NewModem(2, 2)
 	const dbm = 13.0
 	off, pn = impair.Phase(15), impair.PhaseNoise(1e-5)
-	e, n = ber(t, 32, 30, src, qam, off, pn, channel.AWGN(dbm), BlindPhase(32, 32), demod{qam})
-	closeToIdeal(t, "16-QAM, blind phase search", e, n, ber16QAM(dbm), ber16QAM(dbm-penalty))
-	e, n = ber(t, 32, 10, src, qam, off, pn, channel.AWGN(dbm), demod{qam})
-	if r := float64(e) / float64(n); r < 3*ber16QAM(dbm) {
+	e, n = linktest.BER(t, 32, 30, src, qam, off, pn, channel.AWGN(dbm), BlindPhase(32, 32), qam.Demod())
+	closeToIdeal(t, "16-QAM, blind phase search", e, n, linktest.BER16QAM(dbm), linktest.BER16QAM(dbm-penalty))
+	e, n = linktest.BER(t, 32, 10, src, qam, off, pn, channel.AWGN(dbm), qam.Demod())
+	if r := float64(e) / float64(n); r < 3*linktest.BER16QAM(dbm) {
 		t.Errorf("16-QAM without recovery: BER %.3g not clearly above theory", r)
 	}
 }

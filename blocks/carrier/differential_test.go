@@ -5,6 +5,7 @@ import (
 
 	"tally/blocks/channel"
 	"tally/blocks/impair"
+	"tally/blocks/internal/linktest"
 	"tally/blocks/modem"
 	"tally/blocks/theory"
 )
@@ -16,15 +17,15 @@ import (
 // (Proakis, Digital Communications, 4th ed., 2001, ch. 5, as evaluated by theory.DQPSK).
 func TestDifferentialAgainstAmbiguity(t *testing.T) {
 	const db = 8.0
-	src := &testSource{n: 4096}
+	src := &linktest.Source{N: 4096}
 	pn := impair.PhaseNoise(1e-4).RandomStart()
 
 	d := modem.DQPSK()
-	e, n := ber(t, 41, 40, src, d.Mod(), pn, channel.AWGN(db), MPower(32), d.Demod())
+	e, n := linktest.BER(t, 41, 40, src, d.Mod(), pn, channel.AWGN(db), MPower(32), d.Demod())
 	closeToIdeal(t, "DQPSK behind recovery, random start", e, n, theory.DQPSK(db), theory.DQPSK(db-0.5))
 
-	q := newTestModem(1, 1)
-	e, n = ber(t, 41, 40, src, q, pn, channel.AWGN(db), MPower(32), demod{q})
+	q := linktest.NewModem(1, 1)
+	e, n = linktest.BER(t, 41, 40, src, q, pn, channel.AWGN(db), MPower(32), q.Demod())
 	if r := float64(e) / float64(n); r < 0.1 {
 		t.Errorf("coherent QPSK behind recovery with a random start: BER %.3g, expected the ambiguity to show", r)
 	}

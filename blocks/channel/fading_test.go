@@ -7,62 +7,11 @@ import (
 	"testing"
 
 	"tally/blocks/channel"
+	"tally/blocks/internal/linktest"
 	"tally/blocks/link"
 	"tally/blocks/rng"
-	"tally/blocks/stats"
 	"tally/blocks/theory"
 )
-
-// bpskTx is a test-only source and BPSK mapper (bit 0 → +1, bit 1 → −1) at one sample per
-// symbol, so these tests do not depend on the modem package.
-type bpskTx struct {
-	n    int
-	bits []byte
-	x    []complex128
-}
-
-func (b *bpskTx) Process(f *link.Frame, r *rng.Stream) error {
-	b.bits = link.GrowBytes(b.bits, b.n)
-	r.Bits(b.bits)
-	b.x = link.GrowComplex(b.x, b.n)
-	for i, v := range b.bits {
-		b.x[i] = complex(1-2*float64(v), 0)
-	}
-	f.Bits, f.Coded, f.Samples = b.bits, b.bits, b.x
-	f.SPS, f.Symbols, f.BitsPerSymbol, f.Es, f.Real = 1, b.n, 1, 1, true
-	f.Constellation = []complex128{1, -1}
-	return nil
-}
-
-// bpskRx decides on the sign of the real part.
-type bpskRx struct{ hard []byte }
-
-func (b *bpskRx) Process(f *link.Frame, r *rng.Stream) error {
-	b.hard = link.GrowBytes(b.hard, f.Symbols)
-	for i := range b.hard {
-		b.hard[i] = 0
-		if real(f.Samples[i]) < 0 {
-			b.hard[i] = 1
-		}
-	}
-	f.Hard = b.hard
-	return nil
-}
-
-func runLink(t *testing.T, l *link.Link, frames int, seed uint64) link.Tally {
-	t.Helper()
-	if err := l.Check(); err != nil {
-		t.Fatal(err)
-	}
-	counts := make([]link.Tally, len(l.Taps()))
-	var f link.Frame
-	for i := range frames {
-		if err := l.Run(&f, seed, 0, i, counts); err != nil {
-			t.Fatal(err)
-		}
-	}
-	return counts[0]
-}
 
 // bpskRayleigh is the average BER of coherent BPSK in flat Rayleigh fading with average
 // Eb/N0 g: Pb = ½(1 − √(g/(1+g))) (Proakis, Digital Communications, 4th ed., 2001, eq. 14.3-7).
@@ -70,13 +19,9 @@ func bpskRayleigh(g float64) float64 { return 0.5 * (1 - math.Sqrt(g/(1+g))) }
 
 func TestRayleighBPSKPerfectCSI(t *testing.T) {
 	for _, db := range []float64{0, 6, 12} {
-		l := link.Chain(&bpskTx{n: 4096}, channel.Rayleigh(), channel.AWGN(db), channel.KnownGain(), &bpskRx{})
-		c := runLink(t, l, 100, 7)
+		l := link.Chain(&linktest.BPSK{N: 4096}, channel.Rayleigh(), channel.AWGN(db), channel.KnownGain(), &linktest.BPSKDetector{})
+		e := linktest.Estimate(t, l, 100, 7)
 		want := bpskRayleigh(math.Pow(10, db/10))
-		e, err := stats.ClopperPearson(c.Errors, c.Trials, 0.99)
-		if err != nil {
-			t.Fatal(err)
-		}
 		if want < e.Low || want > e.High {
 			t.Errorf("Eb/N0 %v dB: MC BER %.5g, 99%% interval [%.5g, %.5g] misses the closed form %.5g", db, e.Rate, e.Low, e.High, want)
 		}
@@ -92,10 +37,9 @@ func TestRicianBPSKPerfectCSI(t *testing.T) {
 		k, db float64
 		hold  int
 	}{{4, 8, 1}, {1, 4, 1}, {10, 6, 1}} {
-		l := link.Chain(&bpskTx{n: 4096}, channel.Rician(tc.k).Hold(tc.hold), channel.AWGN(tc.db), channel.KnownGain(), &bpskRx{})
-		c := runLink(t, l, 100, 21)
+		l := link.Chain(&linktest.BPSK{N: 4096}, channel.Rician(tc.k).Hold(tc.hold), channel.AWGN(tc.db), channel.KnownGain(), &linktest.BPSKDetector{})
+		e := linktest.Estimate(t, l, 100, 21)
 		want := theory.BPSKRician(tc.k, tc.db)
-		e, _ := stats.ClopperPearson(c.Errors, c.Trials, 0.99)
 		if want < e.Low || want > e.High {
 			t.Errorf("K = %v, %v dB, hold %d: MC BER %.5g, 99%% interval [%.5g, %.5g] misses %.5g", tc.k, tc.db, tc.hold, e.Rate, e.Low, e.High, want)
 		}
@@ -106,10 +50,9 @@ func TestRicianBPSKPerfectCSI(t *testing.T) {
 // scaling by a positive number does not move a sign decision (common practice, no source).
 func TestDerotateBPSK(t *testing.T) {
 	db := 6.0
-	l := link.Chain(&bpskTx{n: 4096}, channel.Rayleigh(), channel.AWGN(db), channel.Derotate(), &bpskRx{})
-	c := runLink(t, l, 100, 8)
+	l := link.Chain(&linktest.BPSK{N: 4096}, channel.Rayleigh(), channel.AWGN(db), channel.Derotate(), &linktest.BPSKDetector{})
+	e := linktest.Estimate(t, l, 100, 8)
 	want := bpskRayleigh(math.Pow(10, db/10))
-	e, _ := stats.ClopperPearson(c.Errors, c.Trials, 0.99)
 	if want < e.Low || want > e.High {
 		t.Errorf("MC BER %.5g, 99%% interval [%.5g, %.5g] misses %.5g", e.Rate, e.Low, e.High, want)
 	}
@@ -118,9 +61,8 @@ func TestDerotateBPSK(t *testing.T) {
 // Without channel knowledge the uniform phase of the Rayleigh gain makes coherent BPSK a coin
 // toss (common practice, no source): the BER must be near 1/2 even at high Eb/N0.
 func TestRayleighNoCSIFails(t *testing.T) {
-	l := link.Chain(&bpskTx{n: 4096}, channel.Rayleigh(), channel.AWGN(30), &bpskRx{})
-	c := runLink(t, l, 20, 9)
-	e, _ := stats.ClopperPearson(c.Errors, c.Trials, 0.99)
+	l := link.Chain(&linktest.BPSK{N: 4096}, channel.Rayleigh(), channel.AWGN(30), &linktest.BPSKDetector{})
+	e := linktest.Estimate(t, l, 20, 9)
 	if e.Low > 0.5 || e.High < 0.5 {
 		t.Errorf("no-CSI BER %.4f, 99%% interval [%.4f, %.4f] does not contain 1/2", e.Rate, e.Low, e.High)
 	}

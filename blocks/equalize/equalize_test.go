@@ -10,9 +10,9 @@ import (
 
 	"tally/blocks/channel"
 	"tally/blocks/equalize"
+	"tally/blocks/internal/linktest"
 	"tally/blocks/link"
 	"tally/blocks/rng"
-	"tally/blocks/stats"
 )
 
 // qpskTx is a test-only source and Gray QPSK mapper: the first bit of a symbol on I, the
@@ -55,30 +55,9 @@ func (b *qpskRx) Process(f *link.Frame, r *rng.Stream) error {
 	return nil
 }
 
-func ber(t *testing.T, l *link.Link, frames int, seed uint64) stats.Estimate {
-	t.Helper()
-	if err := l.Check(); err != nil {
-		t.Fatal(err)
-	}
-	counts := make([]link.Tally, len(l.Taps()))
-	var f link.Frame
-	for i := range frames {
-		if err := l.Run(&f, seed, 0, i, counts); err != nil {
-			t.Fatal(err)
-		}
-	}
-	e, err := stats.ClopperPearson(counts[0].Errors, counts[0].Trials, 0.99)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return e
-}
-
 // Q(√(2γ)), the BER of Gray QPSK per bit in AWGN (Proakis, Digital Communications, 4th ed.,
 // 2001, ch. 5).
 func qpskBER(gamma float64) float64 { return 0.5 * math.Erfc(math.Sqrt(gamma)) }
-
-func db(x float64) float64 { return math.Pow(10, x/10) }
 
 // The test channel: three paths, no spectral null (min |H| ≈ 0.59), invented for these tests.
 var isiTaps = []complex128{0.3, 1, 0.4i}
@@ -181,10 +160,10 @@ func TestEqualisersBER(t *testing.T) {
 		}
 		return link.Chain(&qpskTx{n: 4096}, channel.Multipath(isiTaps), channel.AWGN(ebn0), eq, &qpskRx{})
 	}
-	clean := qpskBER(db(ebn0))
-	margin := qpskBER(db(ebn0 - 2))
+	clean := qpskBER(linktest.DB(ebn0))
+	margin := qpskBER(linktest.DB(ebn0 - 2))
 
-	if e := ber(t, chain(nil), 20, 1); e.Low < 10*clean {
+	if e := linktest.Estimate(t, chain(nil), 20, 1); e.Low < 10*clean {
 		t.Errorf("unequalised BER %.4g is not far above ISI-free %.4g", e.Rate, clean)
 	}
 
@@ -194,14 +173,14 @@ func TestEqualisersBER(t *testing.T) {
 	for _, x := range w {
 		wn += real(x)*real(x) + imag(x)*imag(x)
 	}
-	want := qpskBER(db(ebn0) * real(c[d]) * real(c[d]) / wn)
-	if e := ber(t, chain(zf), 100, 2); want < e.Low || want > e.High {
+	want := qpskBER(linktest.DB(ebn0) * real(c[d]) * real(c[d]) / wn)
+	if e := linktest.Estimate(t, chain(zf), 100, 2); want < e.Low || want > e.High {
 		t.Errorf("ZF: BER %.5g, 99%% interval [%.5g, %.5g] misses the noise-enhanced %.5g", e.Rate, e.Low, e.High, want)
 	}
 
 	var mmse float64
 	for _, eq := range []link.Block{equalize.MMSE(h, 21), equalize.LMS(21, 0.05)} {
-		e := ber(t, chain(eq), 100, 3)
+		e := linktest.Estimate(t, chain(eq), 100, 3)
 		if mmse == 0 {
 			mmse = e.Rate
 		} else if e.Rate > 1.5*mmse {

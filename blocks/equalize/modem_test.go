@@ -5,6 +5,7 @@ import (
 
 	"tally/blocks/channel"
 	"tally/blocks/equalize"
+	"tally/blocks/internal/linktest"
 	"tally/blocks/link"
 	"tally/blocks/modem"
 	"tally/blocks/source"
@@ -21,7 +22,7 @@ func TestLMSWithModemQAM(t *testing.T) {
 	m := modem.QAM(16)
 	l := link.Chain(source.Random(8192), m.Mod(), channel.Multipath(isiTaps), channel.AWGN(ebn0),
 		equalize.LMS(21, 0.05), m.Demod())
-	e := ber(t, l, 40, 4)
+	e := linktest.Estimate(t, l, 40, 4)
 	if margin := theory.QAM(16, ebn0-2); e.Low > margin {
 		t.Errorf("16-QAM with LMS: BER %.4g (99%% interval from %.4g), more than 2 dB worse than ISI-free (%.4g)", e.Rate, e.Low, margin)
 	}

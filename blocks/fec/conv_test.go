@@ -7,6 +7,7 @@ import (
 
 	"tally/blocks/channel"
 	"tally/blocks/fec"
+	"tally/blocks/internal/linktest"
 	"tally/blocks/link"
 	"tally/blocks/rng"
 	"tally/blocks/stats"
@@ -286,7 +287,7 @@ func viterbiLink(ebn0 float64, soft bool, n int) *link.Link {
 	if !soft {
 		dec.Hard()
 	}
-	return link.Chain(&bitSource{n: n}, c.Encoder(), &bpsk{}, channel.AWGN(ebn0), &bpskDemod{soft: true}, dec)
+	return link.Chain(&linktest.Source{N: n}, c.Encoder(), &bpsk{}, channel.AWGN(ebn0), &bpskDemod{soft: true}, dec)
 }
 
 func TestSoftViterbiUnderUnionBound(t *testing.T) {

@@ -6,6 +6,7 @@ import (
 
 	"tally/blocks/channel"
 	"tally/blocks/fec"
+	"tally/blocks/internal/linktest"
 	"tally/blocks/link"
 	"tally/blocks/stats"
 	"tally/blocks/theory"
@@ -169,11 +170,11 @@ func TestHamming74MonteCarlo(t *testing.T) {
 	}{
 		{"bsc p=0.02", func() *link.Link {
 			h := fec.Hamming74()
-			return link.Chain(&bitSource{n: 4000}, h.Encoder(), &bsc{p: 0.02}, h.Decoder())
+			return link.Chain(&linktest.Source{N: 4000}, h.Encoder(), &bsc{p: 0.02}, h.Decoder())
 		}, theory.HammingBSC(3, 0.02)},
 		{"bpsk 5 dB", func() *link.Link {
 			h := fec.Hamming74()
-			return link.Chain(&bitSource{n: 4000}, h.Encoder(), &bpsk{}, channel.AWGN(5), &bpskDemod{}, h.Decoder())
+			return link.Chain(&linktest.Source{N: 4000}, h.Encoder(), &bpsk{}, channel.AWGN(5), &bpskDemod{}, h.Decoder())
 		}, theory.Hamming74(5)},
 	}
 	for _, c := range cases {
@@ -190,7 +191,7 @@ func TestHamming74MonteCarlo(t *testing.T) {
 
 func TestBlockFrameLength(t *testing.T) {
 	// A frame that is not a whole number of messages is an error naming the block.
-	l := link.Chain(&bitSource{n: 10}, fec.Hamming74().Encoder())
+	l := link.Chain(&linktest.Source{N: 10}, fec.Hamming74().Encoder())
 	var f link.Frame
 	err := l.Run(&f, 1, 0, 0, make([]link.Tally, 2))
 	if err == nil || err.Error() != "fec.Hamming74 encoder: frame of 10 bits is not a multiple of 4 (choose a frame length that is)" {

@@ -1,28 +1,15 @@
 package fec_test
 
 import (
-	"math"
 	"testing"
 
+	"tally/blocks/internal/linktest"
 	"tally/blocks/link"
 	"tally/blocks/rng"
 )
 
-// Minimal stand-ins for the source and modem blocks, so these tests depend on nothing but the
-// link contract.
-
-// bitSource makes n random bits per frame.
-type bitSource struct {
-	n   int
-	buf []byte
-}
-
-func (s *bitSource) Process(f *link.Frame, r *rng.Stream) error {
-	s.buf = link.GrowBytes(s.buf, s.n)
-	r.Bits(s.buf)
-	f.Bits, f.Coded = s.buf, s.buf
-	return nil
-}
+// Minimal stand-ins for the modem blocks (the source is linktest.Source), so these tests depend
+// on nothing but the link contract.
 
 // bpsk maps bit b to 1 − 2b on the real axis; its demodulator gives Hard and, with soft, the
 // exact LLR 4y/N0 (for unit energy symbols and noise N0/2 per dimension).
@@ -100,24 +87,10 @@ func (c *flips) Process(f *link.Frame, _ *rng.Stream) error {
 // run passes frames through l and returns the counts by tap name.
 func run(t testing.TB, l *link.Link, frames int, seed uint64) map[string]link.Tally {
 	t.Helper()
-	if err := l.Check(); err != nil {
-		t.Fatal(err)
-	}
-	counts := make([]link.Tally, len(l.Taps()))
-	var f link.Frame
-	for i := 0; i < frames; i++ {
-		if err := l.Run(&f, seed, 0, i, counts); err != nil {
-			t.Fatal(err)
-		}
-	}
+	counts := linktest.Run(t, l, frames, seed)
 	m := map[string]link.Tally{}
 	for i, name := range l.Taps() {
 		m[name] = counts[i]
 	}
 	return m
 }
-
-// qfunc is the Gaussian tail probability Q(x) = erfc(x/√2)/2.
-func qfunc(x float64) float64 { return 0.5 * math.Erfc(x/math.Sqrt2) }
-
-func db(x float64) float64 { return math.Pow(10, x/10) }

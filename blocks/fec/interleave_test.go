@@ -4,6 +4,7 @@ import (
 	"testing"
 
 	"tally/blocks/fec"
+	"tally/blocks/internal/linktest"
 	"tally/blocks/link"
 	"tally/blocks/rng"
 )
@@ -89,7 +90,7 @@ func TestDeinterleaverRestoresTheView(t *testing.T) {
 	for _, il := range []*fec.Interleaver{fec.BlockInterleaver(8, 16), fec.RandomInterleaver()} {
 		c := fec.Conv()
 		w := &flips{at: []int{3, 50, 51, 52, 200}}
-		l := link.Chain(&bitSource{n: 250}, c.Encoder(), il.Interleave(), w, il.Deinterleave(), c.Decoder())
+		l := link.Chain(&linktest.Source{N: 250}, c.Encoder(), il.Interleave(), w, il.Deinterleave(), c.Decoder())
 		got := run(t, l, 5, 1)
 		if pre := got[link.TapPre]; pre.Errors != 5*5 || pre.Trials != 5*512 {
 			t.Errorf("pre-FEC tap %+v, want 25 errors in 2560", pre)
@@ -109,12 +110,12 @@ func TestInterleaverBreaksBursts(t *testing.T) {
 		burst[i] = 100 + i
 	}
 	plain := fec.Conv()
-	l := link.Chain(&bitSource{n: 250}, plain.Encoder(), &flips{at: burst}, plain.Decoder())
+	l := link.Chain(&linktest.Source{N: 250}, plain.Encoder(), &flips{at: burst}, plain.Decoder())
 	if run(t, l, 1, 2)[link.TapBER].Errors == 0 {
 		t.Fatal("the burst did not hurt the code without interleaving")
 	}
 	c, il := fec.Conv(), fec.BlockInterleaver(16, 32)
-	l = link.Chain(&bitSource{n: 250}, c.Encoder(), il.Interleave(), &flips{at: burst}, il.Deinterleave(), c.Decoder())
+	l = link.Chain(&linktest.Source{N: 250}, c.Encoder(), il.Interleave(), &flips{at: burst}, il.Deinterleave(), c.Decoder())
 	if e := run(t, l, 1, 2)[link.TapBER].Errors; e != 0 {
 		t.Errorf("%d bit errors with interleaving", e)
 	}
@@ -126,7 +127,7 @@ func TestConcatenatedStack(t *testing.T) {
 	// deinterleaver between them works on f.Out, the pre-FEC tap stays on the channel bits.
 	rs, il, cc := fec.RS(204, 188), fec.BlockInterleaver(2, 204).Group(8), fec.Conv().Puncture("3/4")
 	w := &flips{at: []int{10, 11, 12, 13, 14, 15, 16, 17, 18, 19, 20, 21, 22, 23, 24, 25, 900}}
-	l := link.Chain(&bitSource{n: 2 * 188 * 8}, rs.Encoder(), il.Interleave(), cc.Encoder(), w,
+	l := link.Chain(&linktest.Source{N: 2 * 188 * 8}, rs.Encoder(), il.Interleave(), cc.Encoder(), w,
 		cc.Decoder(), il.Deinterleave(), rs.Decoder())
 	var f link.Frame
 	counts := make([]link.Tally, len(l.Taps()))

@@ -6,6 +6,7 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"tally/blocks/fec"
+	"tally/blocks/internal/linktest"
 	"tally/blocks/link"
 	"tally/blocks/rng"
 	"tally/blocks/stats"
@@ -194,7 +195,7 @@ func TestRSWordErrorRateOnBSC(t *testing.T) {
 	const p = 0.003
 	c := fec.RS(204, 188)
 	dec := c.Decoder()
-	l := link.Chain(&bitSource{n: 188 * 8 * 10}, c.Encoder(), &bsc{p: p}, dec).Count("words", func(f *link.Frame) (int64, int64) {
+	l := link.Chain(&linktest.Source{N: 188 * 8 * 10}, c.Encoder(), &bsc{p: p}, dec).Count("words", func(f *link.Frame) (int64, int64) {
 		var n, e int64
 		for w := 0; w < len(f.Bits)/(8*188); w++ {
 			n++
@@ -230,7 +231,7 @@ func TestRSBadParameters(t *testing.T) {
 	if err := fec.RS(204, 189).Err(); err.Error() != "fec.RS(204, 189): n − k = 15 must be even" {
 		t.Errorf("message %q", err)
 	}
-	l := link.Chain(&bitSource{n: 1000}, fec.RS(204, 188).Encoder())
+	l := link.Chain(&linktest.Source{N: 1000}, fec.RS(204, 188).Encoder())
 	if err := l.Check(); err != nil {
 		t.Fatal(err)
 	}

@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"tally/blocks/channel"
+	"tally/blocks/internal/linktest"
 )
 
 // A full-scale sine through a b-bit uniform quantiser has SQNR = 6.02·b + 1.76 dB, exactly
@@ -50,13 +51,13 @@ func TestQuantiserLevels(t *testing.T) {
 // A fine converter behind the AGC leaves 16-QAM at its AWGN theory; a coarse one does not.
 func TestADCQAM(t *testing.T) {
 	const db = 12
-	m := newTestModem(2, 2)
-	src := &testSource{n: 4000}
-	e, n := ber(t, 11, 60, src, m, channel.AWGN(db), ADC(12), demod{m})
-	within(t, "16-QAM, 12-bit ADC", e, n, ber16QAM(db))
+	m := linktest.NewModem(2, 2)
+	src := &linktest.Source{N: 4000}
+	e, n := linktest.BER(t, 11, 60, src, m, channel.AWGN(db), ADC(12), m.Demod())
+	linktest.Within(t, "16-QAM, 12-bit ADC", e, n, linktest.BER16QAM(db))
 
-	e, n = ber(t, 12, 60, src, m, channel.AWGN(db), ADC(3).Load(6), demod{m})
-	if float64(e)/float64(n) < 2*ber16QAM(db) {
-		t.Errorf("16-QAM, 3-bit ADC: BER %.3g shows no penalty over theory %.3g", float64(e)/float64(n), ber16QAM(db))
+	e, n = linktest.BER(t, 12, 60, src, m, channel.AWGN(db), ADC(3).Load(6), m.Demod())
+	if float64(e)/float64(n) < 2*linktest.BER16QAM(db) {
+		t.Errorf("16-QAM, 3-bit ADC: BER %.3g shows no penalty over theory %.3g", float64(e)/float64(n), linktest.BER16QAM(db))
 	}
 }

@@ -6,6 +6,7 @@ import (
 	"testing"
 
 	"tally/blocks/channel"
+	"tally/blocks/internal/linktest"
 	"tally/blocks/rng"
 )
 
@@ -107,21 +108,21 @@ func TestAmplifierDrive(t *testing.T) {
 // IBO = 0, Sat = 1), 1.505 dB at p = 2.
 func TestAmplifierConstantEnvelope(t *testing.T) {
 	const db = 5.0
-	m := newTestModem(1, 1)
-	src := &testSource{n: 4000}
-	e, n := ber(t, 21, 40, src, m, Rapp(0, 2), channel.AWGN(db), demod{m})
-	within(t, "QPSK, Rapp at 0 dB IBO, rescaled", e, n, berQPSK(db))
-	e, n = ber(t, 22, 40, src, m, Rapp(0, 2).FixedGain(), channel.AWGN(db), demod{m})
-	within(t, "QPSK, Rapp at 0 dB IBO, fixed gain", e, n, berQPSK(db-10*math.Log10(math.Sqrt2)))
+	m := linktest.NewModem(1, 1)
+	src := &linktest.Source{N: 4000}
+	e, n := linktest.BER(t, 21, 40, src, m, Rapp(0, 2), channel.AWGN(db), m.Demod())
+	linktest.Within(t, "QPSK, Rapp at 0 dB IBO, rescaled", e, n, linktest.BERQPSK(db))
+	e, n = linktest.BER(t, 22, 40, src, m, Rapp(0, 2).FixedGain(), channel.AWGN(db), m.Demod())
+	linktest.Within(t, "QPSK, Rapp at 0 dB IBO, fixed gain", e, n, linktest.BERQPSK(db-10*math.Log10(math.Sqrt2)))
 }
 
 // 16-QAM near saturation is distorted: a clear penalty over theory (the block does act).
 func TestAmplifierQAMPenalty(t *testing.T) {
 	const db = 12.0
-	m := newTestModem(2, 2)
-	src := &testSource{n: 4000}
-	e, n := ber(t, 23, 20, src, m, Saleh(3), channel.AWGN(db), demod{m})
-	if r := float64(e) / float64(n); r < 10*ber16QAM(db) {
-		t.Errorf("16-QAM through Saleh at 3 dB IBO: BER %.3g, theory %.3g; expected a clear penalty", r, ber16QAM(db))
+	m := linktest.NewModem(2, 2)
+	src := &linktest.Source{N: 4000}
+	e, n := linktest.BER(t, 23, 20, src, m, Saleh(3), channel.AWGN(db), m.Demod())
+	if r := float64(e) / float64(n); r < 10*linktest.BER16QAM(db) {
+		t.Errorf("16-QAM through Saleh at 3 dB IBO: BER %.3g, theory %.3g; expected a clear penalty", r, linktest.BER16QAM(db))
 	}
 }

@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"tally/blocks/channel"
+	"tally/blocks/internal/linktest"
 	"tally/blocks/link"
 	"tally/blocks/rng"
 )
@@ -42,12 +43,12 @@ func TestZeroIsIdentity(t *testing.T) {
 // theory, Pb = Q(√(2Eb/N0)), within the 99 % Clopper–Pearson interval.
 func TestZeroMatchesAWGN(t *testing.T) {
 	const db = 4.0
-	src := &testSource{n: 4096}
+	src := &linktest.Source{N: 4096}
 	for _, bps := range []int{1, 2} {
-		m := newTestModem(1, bps-1)
+		m := linktest.NewModem(1, bps-1)
 		for k, b := range zeroed() {
-			e, n := ber(t, uint64(100+k), 25, src, m, channel.AWGN(db), b, demod{m})
-			within(t, fmt.Sprintf("%s, %d bit/symbol", link.NameOf(b), bps), e, n, berQPSK(db))
+			e, n := linktest.BER(t, uint64(100+k), 25, src, m, channel.AWGN(db), b, m.Demod())
+			linktest.Within(t, fmt.Sprintf("%s, %d bit/symbol", link.NameOf(b), bps), e, n, linktest.BERQPSK(db))
 		}
 	}
 }

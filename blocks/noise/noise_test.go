@@ -10,6 +10,7 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 
 	"tally/blocks/channel"
+	"tally/blocks/internal/linktest"
 	"tally/blocks/link"
 	"tally/blocks/rng"
 )
@@ -110,13 +111,13 @@ func TestBPSKTheory(t *testing.T) {
 		var p float64
 		for m := 0; m < 200; m++ {
 			sm := s * math.Sqrt((float64(m)/a+gamma)/(1+gamma))
-			p += pois.Prob(float64(m)) * qfunc(1/sm)
+			p += pois.Prob(float64(m)) * linktest.Q(1/sm)
 		}
 		return p
 	}
 	bg := func(p, r float64) float64 {
 		sg := s / math.Sqrt(1+p*r)
-		return (1-p)*qfunc(1/sg) + p*qfunc(1/(sg*math.Sqrt(1+r)))
+		return (1-p)*linktest.Q(1/sg) + p*linktest.Q(1/(sg*math.Sqrt(1+r)))
 	}
 	cases := []struct {
 		b    link.Block
@@ -128,11 +129,11 @@ func TestBPSKTheory(t *testing.T) {
 		{BernoulliGaussian(db, 0.1, 30), bg(0.1, 30)},
 		{Laplacian(db), distuv.Laplace{Scale: math.Sqrt(n0) / 2}.CDF(-1)},
 	}
-	src := &testSource{n: 4096}
-	m := newTestModem(1, 0)
+	src := &linktest.Source{N: 4096}
+	m := linktest.NewModem(1, 0)
 	for k, c := range cases {
-		e, n := ber(t, uint64(50+k), 30, src, m, c.b, demod{m})
-		within(t, link.NameOf(c.b), e, n, c.want)
+		e, n := linktest.BER(t, uint64(50+k), 30, src, m, c.b, m.Demod())
+		linktest.Within(t, link.NameOf(c.b), e, n, c.want)
 	}
 }
 
@@ -140,12 +141,12 @@ func TestBPSKTheory(t *testing.T) {
 // real (BPSK) and a complex (QPSK) signal.
 func TestZeroIsAWGN(t *testing.T) {
 	const db = 4.0
-	src := &testSource{n: 4096}
+	src := &linktest.Source{N: 4096}
 	for _, bps := range []int{1, 2} {
-		m := newTestModem(1, bps-1)
+		m := linktest.NewModem(1, bps-1)
 		for k, b := range []link.Block{ClassA(db, 0.1, math.Inf(1)), BernoulliGaussian(db, 0, 100), BernoulliGaussian(db, 0.1, 0)} {
-			e, n := ber(t, uint64(80+k), 25, src, m, b, demod{m})
-			within(t, fmt.Sprintf("%s, %d bit/symbol", link.NameOf(b), bps), e, n, berQPSK(db))
+			e, n := linktest.BER(t, uint64(80+k), 25, src, m, b, m.Demod())
+			linktest.Within(t, fmt.Sprintf("%s, %d bit/symbol", link.NameOf(b), bps), e, n, linktest.BERQPSK(db))
 		}
 	}
 }

@@ -7,67 +7,11 @@ import (
 	"testing"
 
 	"tally/blocks/channel"
+	"tally/blocks/internal/linktest"
 	"tally/blocks/link"
 	"tally/blocks/pulse"
 	"tally/blocks/rng"
-	"tally/blocks/stats"
 )
-
-// bpskTx is a test-only source and BPSK mapper (bit 0 → +1, bit 1 → −1), so these tests do not
-// depend on the modem package.
-type bpskTx struct {
-	n    int
-	bits []byte
-	x    []complex128
-}
-
-func (b *bpskTx) Process(f *link.Frame, r *rng.Stream) error {
-	b.bits = link.GrowBytes(b.bits, b.n)
-	r.Bits(b.bits)
-	b.x = link.GrowComplex(b.x, b.n)
-	for i, v := range b.bits {
-		b.x[i] = complex(1-2*float64(v), 0)
-	}
-	f.Bits, f.Coded, f.Samples = b.bits, b.bits, b.x
-	f.SPS, f.Symbols, f.BitsPerSymbol, f.Es, f.Real = 1, b.n, 1, 1, true
-	return nil
-}
-
-type bpskRx struct{ hard []byte }
-
-func (b *bpskRx) Process(f *link.Frame, r *rng.Stream) error {
-	if f.SPS != 1 || len(f.Samples) != f.Symbols {
-		return nil // leaves Hard short: the link reports it
-	}
-	b.hard = link.GrowBytes(b.hard, f.Symbols)
-	for i := range b.hard {
-		b.hard[i] = 0
-		if real(f.Samples[i]) < 0 {
-			b.hard[i] = 1
-		}
-	}
-	f.Hard = b.hard
-	return nil
-}
-
-func ber(t *testing.T, l *link.Link, frames int, seed uint64) stats.Estimate {
-	t.Helper()
-	if err := l.Check(); err != nil {
-		t.Fatal(err)
-	}
-	counts := make([]link.Tally, len(l.Taps()))
-	var f link.Frame
-	for i := range frames {
-		if err := l.Run(&f, seed, 0, i, counts); err != nil {
-			t.Fatal(err)
-		}
-	}
-	e, err := stats.ClopperPearson(counts[0].Errors, counts[0].Trials, 0.99)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return e
-}
 
 func conv(a, b []float64) []float64 {
 	y := make([]float64, len(a)+len(b)-1)
@@ -183,8 +127,8 @@ func TestShapedBPSKMatchesAWGN(t *testing.T) {
 		sps int
 	}{{2, 4}, {6, 2}, {4, 8}} {
 		p := pulse.RRC(0.35).Span(12).SPS(tc.sps)
-		l := link.Chain(&bpskTx{n: 2048}, p.Shape(), channel.AWGN(tc.db), p.Match(), pulse.Sample(), &bpskRx{})
-		e := ber(t, l, 150, 5)
+		l := link.Chain(&linktest.BPSK{N: 2048}, p.Shape(), channel.AWGN(tc.db), p.Match(), pulse.Sample(), &linktest.BPSKDetector{})
+		e := linktest.Estimate(t, l, 150, 5)
 		want := 0.5 * math.Erfc(math.Sqrt(math.Pow(10, tc.db/10)))
 		if want < e.Low || want > e.High {
 			t.Errorf("%v dB, SPS %d: BER %.5g, 99%% interval [%.5g, %.5g] misses %.5g", tc.db, tc.sps, e.Rate, e.Low, e.High, want)
@@ -199,11 +143,11 @@ func TestTimingOffsetBER(t *testing.T) {
 	p := pulse.RRC(0.35).Span(12).SPS(4)
 	db := 6.0
 	want := 0.5 * math.Erfc(math.Sqrt(math.Pow(10, db/10)))
-	late := ber(t, link.Chain(&bpskTx{n: 2048}, p.Shape(), pulse.Timing(0.5), channel.AWGN(db), p.Match(), pulse.Sample(), &bpskRx{}), 40, 6)
+	late := linktest.Estimate(t, link.Chain(&linktest.BPSK{N: 2048}, p.Shape(), pulse.Timing(0.5), channel.AWGN(db), p.Match(), pulse.Sample(), &linktest.BPSKDetector{}), 40, 6)
 	if late.Low < 5*want {
 		t.Errorf("half-symbol offset: BER %.4g, want far above the aligned %.4g", late.Rate, want)
 	}
-	fixed := ber(t, link.Chain(&bpskTx{n: 2048}, p.Shape(), pulse.Timing(0.25), channel.AWGN(db), p.Match(), pulse.Sample().Phase(1), &bpskRx{}), 150, 6)
+	fixed := linktest.Estimate(t, link.Chain(&linktest.BPSK{N: 2048}, p.Shape(), pulse.Timing(0.25), channel.AWGN(db), p.Match(), pulse.Sample().Phase(1), &linktest.BPSKDetector{}), 150, 6)
 	if want < fixed.Low || want > fixed.High {
 		t.Errorf("offset 1 sample, phase 1: BER %.5g, 99%% interval [%.5g, %.5g] misses %.5g", fixed.Rate, fixed.Low, fixed.High, want)
 	}

@@ -45,6 +45,41 @@ func checkCount(k, n int64, confidence float64) error {
 	return nil
 }
 
+// betaInterval is the interval between Beta quantiles that Clopper–Pearson and Jeffreys
+// share: after the argument checks, with α = 1 − confidence and shapes(k, n) giving the Beta
+// shapes (a, b) of each limit,
+//
+//	low  = B⁻¹(α/2; low shapes)
+//	high = B⁻¹(1−α/2; high shapes)
+//
+// one-sided at the ends: k = 0 gives low = 0 and high = B⁻¹(1−α; high shapes), k = n gives
+// low = B⁻¹(α; low shapes) and high = 1. The rate is k/n; no trials give none(method).
+func betaInterval(method string, k, n int64, confidence float64, shapes func(k, n float64) (low, high [2]float64)) (e Estimate, err error) {
+	defer numeric(&e, &err)
+	if err := checkCount(k, n, confidence); err != nil {
+		return Estimate{}, err
+	}
+	if n == 0 {
+		return none(method), nil
+	}
+	alpha := 1 - confidence
+	kf, nf := float64(k), float64(n)
+	lo, hi := shapes(kf, nf)
+	e = Estimate{Rate: kf / nf, Method: method}
+	switch {
+	case k == 0:
+		e.High = betaQuantile(1-alpha, hi[0], hi[1])
+	case k == n:
+		e.Low = betaQuantile(alpha, lo[0], lo[1])
+		e.High = 1
+	default:
+		e.Low = betaQuantile(alpha/2, lo[0], lo[1])
+		e.High = betaQuantile(1-alpha/2, hi[0], hi[1])
+	}
+	e.Low, e.High = clamp(e.Low), clamp(e.High)
+	return e, nil
+}
+
 // numeric turns a panic of the numerical routines (gonum's panic on some extreme arguments,
 // such as a confidence of 1e-300) into an error, and so does a result that is not a number.
 func numeric(e *Estimate, err *error) {
