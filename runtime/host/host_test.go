@@ -9,7 +9,11 @@ import (
 	"path/filepath"
 	"regexp"
 	"strings"
+	"sync"
 	"testing"
+	"time"
+
+	"tally/runtime/sim"
 )
 
 // scriptIn copies a test script into a fresh folder, so its outputs land there.
@@ -151,4 +155,58 @@ func TestRefusesMisrunAssignment(t *testing.T) {
 	if err == nil || !strings.Contains(err.Error(), p+":8:2") {
 		t.Fatalf("got %v", err)
 	}
+}
+
+// Ctrl-C (the context ending) stops a run promptly, keeps the finished points and writes the
+// point in progress with stop "interrupted".
+func TestInterruptKeepsFinishedPoints(t *testing.T) {
+	p := scriptIn(t, "custom.go")
+	src, _ := os.ReadFile(p)
+	// A last point that would run for minutes: a high Eb/N0 and a huge error target.
+	s := strings.Replace(string(src), `x.Sweep("ebn0_db", 0, 2, 4, 6)`, `x.Sweep("ebn0_db", 0, 2, 14)`, 1)
+	s = strings.Replace(s, `x.Stop(stop.Errors(200), stop.Bits(1e6))`, `x.Stop(stop.Errors(200), stop.Bits(1e12))`, 1)
+	os.WriteFile(p, []byte(s), 0o644)
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	// Cancel once the first two points are reported finished, then a moment into the third.
+	log := &lineWatch{after: 2, do: func() { time.AfterFunc(200*time.Millisecond, cancel) }}
+	begin := time.Now()
+	err := Run(ctx, p, Config{Workers: 2, Log: log})
+	begin = log.at
+	if !errors.Is(err, sim.ErrInterrupted) {
+		t.Fatalf("want ErrInterrupted, got %v", err)
+	}
+	if d := time.Since(begin); d > 10*time.Second {
+		t.Errorf("the run took %v to stop", d)
+	}
+	rows := strings.Split(strings.TrimSpace(string(table(t, p))), "\n")
+	if len(rows) != 4 {
+		t.Fatalf("table has %d rows, want header and 3 points:\n%s", len(rows), strings.Join(rows, "\n"))
+	}
+	for i, want := range []string{"errors", "errors", "interrupted"} {
+		if !strings.Contains(rows[i+1], ","+want+",") {
+			t.Errorf("point %d: %q, want stop %s", i+1, rows[i+1], want)
+		}
+	}
+}
+
+// lineWatch is a log writer that calls do once it has seen after lines with "stop=".
+type lineWatch struct {
+	mu    sync.Mutex
+	seen  int
+	after int
+	do    func()
+	at    time.Time
+}
+
+func (w *lineWatch) Write(b []byte) (int, error) {
+	w.mu.Lock()
+	defer w.mu.Unlock()
+	w.seen += strings.Count(string(b), "stop=")
+	if w.do != nil && w.seen >= w.after {
+		w.do()
+		w.do = nil
+		w.at = time.Now()
+	}
+	return len(b), nil
 }
