@@ -19,6 +19,7 @@ import (
 	"strconv"
 	"strings"
 	"testing/fstest"
+	"time"
 
 	"github.com/traefik/yaegi/interp"
 	"github.com/traefik/yaegi/stdlib"
@@ -30,6 +31,9 @@ import (
 	"tally/runtime/result"
 	"tally/runtime/sim"
 )
+
+// stuckGrace is how long an ended run may take to stop before the interpreter is stopped.
+const stuckGrace = 3 * time.Second
 
 // Config is what the command line tells a script run.
 type Config struct {
@@ -112,7 +116,25 @@ func Run(ctx context.Context, path string, cfg Config) error {
 		}
 		return nil
 	}
-	_, err = i.EvalPath(name)
+	// The engine stops at once when ctx ends and the run then writes its finished points; only a
+	// script stuck in its own code needs the interpreter stopped, a grace period later.
+	evalCtx, stopEval := context.WithCancel(context.Background())
+	defer stopEval()
+	go func() {
+		select {
+		case <-ctx.Done():
+			select {
+			case <-time.After(stuckGrace):
+				stopEval()
+			case <-evalCtx.Done():
+			}
+		case <-evalCtx.Done():
+		}
+	}()
+	_, err = i.EvalPathWithContext(evalCtx, name)
+	if err != nil && errors.Is(err, context.Canceled) && ctx.Err() != nil {
+		return sim.ErrInterrupted
+	}
 	if err != nil {
 		return translate(path, err, mk)
 	}

@@ -210,3 +210,19 @@ func (w *lineWatch) Write(b []byte) (int, error) {
 	}
 	return len(b), nil
 }
+
+// A script stuck in its own loop is stopped too, a grace period after the run is ended.
+func TestInterruptStopsStuckScript(t *testing.T) {
+	p := filepath.Join(t.TempDir(), "stuck.go")
+	os.WriteFile(p, []byte("//go:build ignore\n\npackage main\n\nfunc main() {\n\tn := 0\n\tfor {\n\t\tn++\n\t}\n}\n"), 0o644)
+	ctx, cancel := context.WithTimeout(context.Background(), 200*time.Millisecond)
+	defer cancel()
+	begin := time.Now()
+	err := Run(ctx, p, quiet(1))
+	if !errors.Is(err, sim.ErrInterrupted) {
+		t.Fatalf("want ErrInterrupted, got %v", err)
+	}
+	if d := time.Since(begin); d > stuckGrace+5*time.Second {
+		t.Errorf("stopping took %v", d)
+	}
+}
