@@ -34,5 +34,6 @@ func main() {
 	x.Stop(stop.Errors(100), stop.Bits(1e8))
 	x.Theory("coherent", func(p sim.Point) float64 { return theory.BPSK(p.Get("ebn0_db")) })
 	x.Target(1e-5, "coherent")
+	x.Scatter(6, 1) // the received QPSK symbols at 6 dB
 	x.Run()
 }

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"image/png"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -224,5 +225,27 @@ func TestInterruptStopsStuckScript(t *testing.T) {
 	}
 	if d := time.Since(begin); d > stuckGrace+5*time.Second {
 		t.Errorf("stopping took %v", d)
+	}
+}
+
+// Scatter draws one frame of the chosen point as the receiver saw it.
+func TestScatterWritesConstellation(t *testing.T) {
+	p := scriptIn(t, "bpsk.go")
+	src, _ := os.ReadFile(p)
+	os.WriteFile(p, []byte(strings.Replace(string(src), "\tx.Run()", "\tx.Scatter(4)\n\tx.Run()", 1)), 0o644)
+	if err := Run(context.Background(), p, quiet(2)); err != nil {
+		t.Fatal(err)
+	}
+	f, err := os.Open(filepath.Join(strings.TrimSuffix(p, ".go"), "scatter.png"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	if _, err := png.Decode(f); err != nil {
+		t.Fatalf("scatter.png: %v", err)
+	}
+	os.WriteFile(p, []byte(strings.Replace(string(src), "\tx.Run()", "\tx.Scatter(5)\n\tx.Run()", 1)), 0o644)
+	if err := Run(context.Background(), p, quiet(2)); err == nil || !strings.Contains(err.Error(), "no point") {
+		t.Fatalf("a point not in the sweep: %v", err)
 	}
 }

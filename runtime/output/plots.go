@@ -22,5 +22,18 @@ func plotFiles(r *result.Run) ([]File, error) {
 	if err != nil {
 		return nil, fmt.Errorf("output: ber.png: %w", err)
 	}
-	return []File{{"ber.svg", svg}, {"ber.png", png}}, nil
+	files := []File{{"ber.svg", svg}, {"ber.png", png}}
+	if sc := r.Scatter; sc != nil {
+		fig := plots.Constellation("received samples at "+sc.Label, sc.Received, sc.Ideal)
+		svg, err := fig.SVG()
+		if err != nil {
+			return nil, fmt.Errorf("output: scatter.svg: %w", err)
+		}
+		png, err := fig.PNG()
+		if err != nil {
+			return nil, fmt.Errorf("output: scatter.png: %w", err)
+		}
+		files = append(files, File{"scatter.svg", svg}, File{"scatter.png", png})
+	}
+	return files, nil
 }

@@ -26,8 +26,11 @@ type Run struct {
 	Points       []Point    `json:"points"`
 	Targets      []Target   `json:"targets,omitempty"`
 	Interrupted  bool       `json:"interrupted"`
-	Start        time.Time  `json:"start"`
-	End          time.Time  `json:"end"`
+	// Scatter is one frame's received samples at a chosen point, for the constellation plot
+	// (not part of run.json: the plot is the record).
+	Scatter *Scatter  `json:"-"`
+	Start   time.Time `json:"start"`
+	End     time.Time `json:"end"`
 }
 
 // Point is one sweep point's outcome.
@@ -74,6 +77,14 @@ type Target struct {
 	Gain     float64 `json:"gain_db,omitempty"`
 	GainOver string  `json:"gain_over,omitempty"`
 	Note     string  `json:"note,omitempty"`
+}
+
+// Scatter is what the receiver saw in one frame of one point.
+type Scatter struct {
+	Point    int          // point index
+	Label    string       // the point's parameters, for the title
+	Received []complex128 // the frame's samples after the last block
+	Ideal    []complex128 // the modulator's constellation (nil when none)
 }
 
 // Value is a point's value of parameter i as the table shows it: its label, or the number.

@@ -30,6 +30,7 @@ type Experiment struct {
 	build      func(p Point) *link.Link
 	rules      []stop.Rule
 	sweepRules []stop.SweepRule
+	scatterAt  []float64
 	theory     []curve
 	targets    []target
 	confidence float64
