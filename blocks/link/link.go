@@ -161,22 +161,30 @@ func (l *Link) Run(f *Frame, seed uint64, point, index int, counts []Tally) erro
 	return nil
 }
 
-// CountErrors counts the positions where two equal-length bit slices (one bit per byte) differ,
-// eight bytes at a time.
+// CountErrors counts the positions where two equal-length bit slices (one bit per byte, 0 or
+// 1) differ: the bytes are XORed eight at a time and the set bits counted, four words per
+// step so the counts overlap.
 func CountErrors(a, b []byte) int64 {
 	n := min(len(a), len(b))
-	var e int
+	a, b = a[:n], b[:n]
+	var e0, e1, e2, e3 int
 	i := 0
+	for ; i+32 <= n; i += 32 {
+		x, y := a[i:i+32:i+32], b[i:i+32:i+32]
+		e0 += bits.OnesCount64(binary.LittleEndian.Uint64(x[0:]) ^ binary.LittleEndian.Uint64(y[0:]))
+		e1 += bits.OnesCount64(binary.LittleEndian.Uint64(x[8:]) ^ binary.LittleEndian.Uint64(y[8:]))
+		e2 += bits.OnesCount64(binary.LittleEndian.Uint64(x[16:]) ^ binary.LittleEndian.Uint64(y[16:]))
+		e3 += bits.OnesCount64(binary.LittleEndian.Uint64(x[24:]) ^ binary.LittleEndian.Uint64(y[24:]))
+	}
 	for ; i+8 <= n; i += 8 {
-		x := binary.LittleEndian.Uint64(a[i:]) ^ binary.LittleEndian.Uint64(b[i:])
-		e += bits.OnesCount64(x)
+		e0 += bits.OnesCount64(binary.LittleEndian.Uint64(a[i:]) ^ binary.LittleEndian.Uint64(b[i:]))
 	}
 	for ; i < n; i++ {
 		if a[i] != b[i] {
-			e++
+			e0++
 		}
 	}
-	return int64(e)
+	return int64(e0 + e1 + e2 + e3)
 }
 
 func typeName(b Block) string {

@@ -210,6 +210,13 @@ func (d *Detector) axisDetect(f *link.Frame, y []complex128, soft, exact bool) {
 			d.hard[2*i] = sign(real(v))
 			d.hard[2*i+1] = sign(imag(v))
 		}
+	case !soft && m.axes == 2 && a.L == 4: // 16-QAM, branch-free: per axis the sign, then |x| against 2d
+		t := 2 * a.d
+		for i, v := range y {
+			b := d.hard[4*i : 4*i+4 : 4*i+4]
+			b[0], b[1] = sign(real(v)), sign(math.Abs(real(v))-t)
+			b[2], b[3] = sign(imag(v)), sign(math.Abs(imag(v))-t)
+		}
 	case !soft:
 		for i, v := range y {
 			a.decide(real(v), d.hard[i*k:i*k+h])

@@ -102,6 +102,12 @@ func (b *Mapper) mapAxis(c []byte) {
 		for i := range b.buf {
 			b.buf[i] = complex(d*(1-2*float64(c[2*i]&1)), d*(1-2*float64(c[2*i+1]&1)))
 		}
+	case m.axes == 2 && a.L == 4: // 16-QAM: the label of four bits, most significant first
+		p := m.points[:16]
+		for i := range b.buf {
+			q := c[4*i : 4*i+4 : 4*i+4]
+			b.buf[i] = p[(q[0]&1)<<3|(q[1]&1)<<2|(q[2]&1)<<1|q[3]&1]
+		}
 	default:
 		k := m.Bits
 		for i := range b.buf {

@@ -5,9 +5,14 @@
 // number generators", OOPSLA 2014), so any value of any stream can be computed without
 // touching any other: frame f of point p never depends on which worker ran frames before it.
 // Keys are derived from (seed, point, frame, block) by the same mix, see Key.
+//
+// Normal values come from a 256-layer ziggurat over the stream (ziggurat.go, normal.go), one
+// output per value: the n-th normal value of a stream depends on its key and n alone. Bulk
+// calls (Normals, AddNoise, AddRealNoise, Bits) fill a frame at a time without allocating.
 package rng
 
 import (
+	"encoding/binary"
 	"math/bits"
 	"math/rand/v2"
 )
@@ -84,16 +89,26 @@ func (s *Stream) IntN(n int) int {
 	return int(hi)
 }
 
-// Bits fills dst with independent equiprobable bits (0 or 1), 64 bits per draw.
+// Bits fills dst with independent equiprobable bits (0 or 1), 64 bits per draw: bit j of the
+// n-th draw goes to dst[64n+j].
 func (s *Stream) Bits(dst []byte) {
+	k, c := s.key, s.ctr
 	i := 0
 	for ; i+64 <= len(dst); i += 64 {
-		w := s.Uint64()
+		c++
+		w := mix(k + c*golden)
 		d := dst[i : i+64 : i+64]
-		for j := range d {
-			d[j] = byte(w>>uint(j)) & 1
-		}
+		// Eight bits at a time: spread[b] holds bit j of b in byte j.
+		binary.LittleEndian.PutUint64(d[0:], spread[w&0xff])
+		binary.LittleEndian.PutUint64(d[8:], spread[w>>8&0xff])
+		binary.LittleEndian.PutUint64(d[16:], spread[w>>16&0xff])
+		binary.LittleEndian.PutUint64(d[24:], spread[w>>24&0xff])
+		binary.LittleEndian.PutUint64(d[32:], spread[w>>32&0xff])
+		binary.LittleEndian.PutUint64(d[40:], spread[w>>40&0xff])
+		binary.LittleEndian.PutUint64(d[48:], spread[w>>48&0xff])
+		binary.LittleEndian.PutUint64(d[56:], spread[w>>56])
 	}
+	s.ctr = c
 	if i < len(dst) {
 		w := s.Uint64()
 		for j := range dst[i:] {
@@ -101,3 +116,13 @@ func (s *Stream) Bits(dst []byte) {
 		}
 	}
 }
+
+// spread[b] has bit j of b in the low bit of byte j (little-endian).
+var spread = func() (t [256]uint64) {
+	for b := range t {
+		for j := range 8 {
+			t[b] |= uint64(b>>j&1) << (8 * j)
+		}
+	}
+	return t
+}()
