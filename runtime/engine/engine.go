@@ -201,6 +201,53 @@ func Run(ctx context.Context, s Spec) (Outcome, error) {
 		return replay(ctx, s, &out, prog, check, start, before)
 	}
 
+	frameOf := func(n int64) int64 { return n } // n-th frame this run computes → frame index
+	if s.Shard != nil {
+		frameOf = func(n int64) int64 { return n*int64(s.Shard.Of) + int64(s.Shard.Index) }
+	}
+	// commit adds frame idx's counts to the prefix and reports whether a rule is now met.
+	commit := func(idx int64, counts []link.Tally) bool {
+		for i := range counts {
+			prog.Counts[i].Add(counts[i])
+		}
+		prog.Frames++
+		out.Computed++
+		if s.OnCommit != nil {
+			s.OnCommit(idx, counts)
+		}
+		return check()
+	}
+	lastProgress := time.Now()
+	progress := func() {
+		if s.OnProgress != nil && time.Since(lastProgress) >= s.ProgressEvery {
+			lastProgress = time.Now()
+			prog.Elapsed = before + time.Since(start)
+			s.OnProgress(prog)
+		}
+	}
+
+	// One worker computes and commits in this goroutine: no hand-over between threads.
+	if workers == 1 {
+		var f link.Frame
+		c := make([]link.Tally, len(taps))
+		for {
+			if ctx.Err() != nil {
+				out.Stop = Interrupted
+				break
+			}
+			idx := frameOf(prog.Frames)
+			clear(c)
+			if err := runFrame(first, &f, s, int(idx), c); err != nil {
+				return Outcome{}, fmt.Errorf("point %d, frame %d: %w", s.Point+1, idx, err)
+			}
+			if commit(idx, c) {
+				break
+			}
+			progress()
+		}
+		return finish(out, prog, start, before), nil
+	}
+
 	links := make([]*link.Link, workers)
 	links[0] = first
 	for w := 1; w < workers; w++ {
@@ -217,10 +264,6 @@ func Run(ctx context.Context, s Spec) (Outcome, error) {
 	pctx, cancel := context.WithCancel(ctx)
 	defer cancel()
 
-	frameOf := func(n int64) int64 { return n } // n-th frame this run computes → frame index
-	if s.Shard != nil {
-		frameOf = func(n int64) int64 { return n*int64(s.Shard.Of) + int64(s.Shard.Index) }
-	}
 	// In shard mode prog.Frames counts this shard's frames.
 	next := prog.Frames
 	for ; next < prog.Frames+window; next++ {
@@ -245,7 +288,6 @@ func Run(ctx context.Context, s Spec) (Outcome, error) {
 	}
 
 	pending := map[int64]done{}
-	lastProgress := time.Now()
 	var runErr error
 loop:
 	for {
@@ -266,25 +308,13 @@ loop:
 					break
 				}
 				delete(pending, want)
-				for i := range d.counts {
-					prog.Counts[i].Add(d.counts[i])
-				}
-				prog.Frames++
-				out.Computed++
-				if s.OnCommit != nil {
-					s.OnCommit(want, d.counts)
-				}
-				if check() {
+				if commit(want, d.counts) {
 					break loop
 				}
 				jobs <- frameOf(next)
 				next++
 			}
-			if s.OnProgress != nil && time.Since(lastProgress) >= s.ProgressEvery {
-				lastProgress = time.Now()
-				prog.Elapsed = before + time.Since(start)
-				s.OnProgress(prog)
-			}
+			progress()
 		}
 	}
 	cancel()
