@@ -4,7 +4,8 @@
 // Three interval methods for a count of k errors in n trials (bits or frames) are offered by
 // name: "clopper-pearson" (exact, the default), "wilson" and "jeffreys". A point ended by an
 // error-count stop rule is inverse binomial sampling and gets its own estimator and exact
-// interval ("negative-binomial", see InverseSampling; ForFrames picks it). With no errors
+// interval ("negative-binomial" when the rule is judged after every trial, "stagewise" when
+// it is judged at frame boundaries; see InverseSampling; ForFrames picks it). With no errors
 // every method gives a one-sided upper bound and a lower limit of 0; with every trial in
 // error, a one-sided lower bound and an upper limit of 1. Counts up to 2⁶² are handled
 // (see beta.go for how, past gonum's range).

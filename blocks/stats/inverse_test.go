@@ -88,9 +88,11 @@ func TestInverseSamplingUnbiasedInFrames(t *testing.T) {
 
 func TestInverseSamplingInputs(t *testing.T) {
 	// One frame: all that is known is k of n, with nothing before it.
+	// The stage-wise interval is then Clopper–Pearson's.
 	e, _ := stats.InverseSampling(5, 100, 1, 3, 0.95)
-	if e.Rate != 0.05 || e.High != 1 {
-		t.Errorf("single frame: %+v, want rate 0.05 and high 1", e)
+	cp, _ := stats.ClopperPearson(5, 100, 0.95)
+	if e.Rate != 0.05 || !near(e.Low, cp.Low, 1e-12) || !near(e.High, cp.High, 1e-12) || e.Method != "stagewise" {
+		t.Errorf("single frame: %+v, want rate 0.05 and Clopper–Pearson's %+v", e, cp)
 	}
 	for _, c := range []struct {
 		k, n, frames, r int64
@@ -112,8 +114,8 @@ func TestInverseSamplingInputs(t *testing.T) {
 func TestForFrames(t *testing.T) {
 	tally := link.Tally{Trials: 40960, Errors: 12}
 	e, err := stats.ForFrames(tally, 10, 0.95, "wilson", 10)
-	if err != nil || e.Method != "negative-binomial" {
-		t.Errorf("ended by errors: %+v %v, want negative-binomial", e, err)
+	if err != nil || e.Method != "stagewise" {
+		t.Errorf("ended by errors: %+v %v, want stagewise", e, err)
 	}
 	e, err = stats.ForFrames(tally, 10, 0.95, "wilson", 0)
 	if err != nil || e.Method != "wilson" {
@@ -135,5 +137,106 @@ func TestForFrames(t *testing.T) {
 	f, _ := stats.ForFrames(tally, 10, 0.95, "", 10)
 	if p, _ := stats.ForPoint(tally, 0.95, "", 10); p != f {
 		t.Errorf("ForPoint %+v, ForFrames %+v", p, f)
+	}
+}
+
+// stageTails are the two stage-wise tails at p, summed directly from binomial probabilities:
+// P(S_m ≥ r or S_n ≥ k) and P(S_m ≤ r−1, S_n ≤ k), S_m the errors of the m trials before the
+// last frame of L.
+func stageTails(k, m, L, r int64, p float64) (up, down float64) {
+	sm, x := distuv.Binomial{N: float64(m), P: p}, distuv.Binomial{N: float64(L), P: p}
+	up = 1 - sm.CDF(float64(r-1))
+	for j := int64(0); j <= min(r-1, m); j++ {
+		up += sm.Prob(float64(j)) * (1 - x.CDF(float64(k-j-1)))
+		down += sm.Prob(float64(j)) * x.CDF(float64(k-j))
+	}
+	return up, down
+}
+
+// In frames of L > 1 trials each limit cuts α/2 off its stage-wise tail, summed directly,
+// and lies inside the limits from the frame count alone (B⁻¹(α/2; r, n−r+1) and
+// B⁻¹(1−α/2; r, m−r+1), the formulas of InverseSampling's doc).
+func TestInverseSamplingStagewiseTails(t *testing.T) {
+	for _, c := range []struct{ k, frames, L, r int64 }{
+		{12, 10, 4096, 10}, {105, 20, 2048, 100}, {158, 1, 2048, 100}, {130, 2, 2048, 100},
+		{10, 7, 64, 10}, {14, 3, 512, 10}, {3, 40, 8, 2},
+	} {
+		n, m := c.frames*c.L, (c.frames-1)*c.L
+		e, err := stats.InverseSampling(c.k, n, c.frames, c.r, 0.95)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if up, _ := stageTails(c.k, m, c.L, c.r, e.Low); !near(up, 0.025, 1e-8) {
+			t.Errorf("%+v: upper tail %g at low %g, want 0.025", c, up, e.Low)
+		}
+		if _, down := stageTails(c.k, m, c.L, c.r, e.High); !near(down, 0.025, 1e-8) {
+			t.Errorf("%+v: lower tail %g at high %g, want 0.025", c, down, e.High)
+		}
+		nbLow := distuv.Beta{Alpha: float64(c.r), Beta: float64(n - c.r + 1)}.Quantile(0.025)
+		nbHigh := 1.0
+		if m >= c.r {
+			nbHigh = distuv.Beta{Alpha: float64(c.r), Beta: float64(m - c.r + 1)}.Quantile(0.975)
+		}
+		if e.Low < nbLow-1e-12 || e.High > nbHigh+1e-12 || e.Method != "stagewise" {
+			t.Errorf("%+v: %+v not within the frame-count limits [%g, %g]", c, e, nbLow, nbHigh)
+		}
+	}
+}
+
+// Exact coverage in frames: summed over every outcome (F, k) of "stop at the first frame
+// boundary with at least r errors" (probabilities as in TestInverseSamplingUnbiasedInFrames),
+// the 95 % interval holds p with probability at least 0.95 — exactness, checked without
+// simulation noise.
+func TestInverseSamplingStagewiseExactCoverage(t *testing.T) {
+	for _, c := range []struct {
+		L, r int64
+		p    float64
+	}{{16, 3, 0.3}, {16, 3, 0.05}, {32, 5, 0.2}, {8, 2, 0.02}, {64, 4, 0.1}} {
+		var cov, total float64
+		for f := int64(1); f <= 3000 && total < 1-1e-12; f++ {
+			m := (f - 1) * c.L
+			for k := c.r; k <= c.r-1+c.L; k++ {
+				var pr float64
+				for j := max(0, k-c.L); j <= min(c.r-1, m); j++ {
+					pr += distuv.Binomial{N: float64(m), P: c.p}.Prob(float64(j)) * distuv.Binomial{N: float64(c.L), P: c.p}.Prob(float64(k-j))
+				}
+				if pr < 1e-15 {
+					continue
+				}
+				e, err := stats.InverseSampling(k, f*c.L, f, c.r, 0.95)
+				if err != nil {
+					t.Fatal(err)
+				}
+				total += pr
+				if e.Contains(c.p) {
+					cov += pr
+				}
+			}
+		}
+		if !near(total, 1, 1e-9) {
+			t.Fatalf("%+v: outcomes sum to %g", c, total)
+		}
+		if cov < 0.95-1e-9 {
+			t.Errorf("%+v: exact coverage %.5f, want at least 0.95", c, cov)
+		}
+		t.Logf("L=%d r=%d p=%g: exact coverage %.5f", c.L, c.r, c.p, cov)
+	}
+}
+
+// The example that showed the problem: BPSK at 0 dB (p ≈ 0.0786) in frames of 2048 bits,
+// ended at 100 errors after one frame with 158. The frame count alone gave [0.0399, 1]; the
+// interval must be within 1.3 times the Clopper–Pearson width on (158, 2048) (common
+// practice, no source: the stopping hardly constrains a one-frame count). Two frames, too.
+func TestInverseSamplingCoarseFrames(t *testing.T) {
+	for _, c := range []struct{ k, frames int64 }{{158, 1}, {190, 2}, {230, 3}} {
+		n := c.frames * 2048
+		e, err := stats.InverseSampling(c.k, n, c.frames, 100, 0.95)
+		if err != nil {
+			t.Fatal(err)
+		}
+		cp, _ := stats.ClopperPearson(c.k, n, 0.95)
+		if w, cw := e.High-e.Low, cp.High-cp.Low; w > 1.3*cw || !e.Contains(e.Rate) {
+			t.Errorf("%d errors in %d frames: %+v, width %.4g against Clopper–Pearson's %.4g", c.k, c.frames, e, w, cw)
+		}
 	}
 }

@@ -7,8 +7,8 @@ import "tally/blocks/link"
 //
 // errorTarget > 0 says the point ended because this tap reached that many errors: that is
 // inverse binomial sampling, and the estimate is InverseSampling's (Method
-// "negative-binomial") whatever method is named, because the fixed-n methods are biased
-// there. Otherwise the named method is used ("" is Default), which is exact for a point
+// "negative-binomial" for frames of one trial, "stagewise" for longer frames) whatever
+// method is named, because the fixed-n methods are biased there. Otherwise the named method is used ("" is Default), which is exact for a point
 // ended by a bit cap. An unknown method is an error even for a count that would not use it,
 // so a script's mistake shows at once.
 func ForFrames(t link.Tally, frames int64, confidence float64, method string, errorTarget int64) (Estimate, error) {

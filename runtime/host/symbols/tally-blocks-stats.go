@@ -31,6 +31,7 @@ func init() {
 		"MethodNamed":     reflect.ValueOf(stats.MethodNamed),
 		"Methods":         reflect.ValueOf(&stats.Methods).Elem(),
 		"Penalty":         reflect.ValueOf(stats.Penalty),
+		"StagewiseMethod": reflect.ValueOf(constant.MakeFromLiteral("\"stagewise\"", token.STRING, 0)),
 		"Wilson":          reflect.ValueOf(stats.Wilson),
 
 		// type definitions
