@@ -9,7 +9,10 @@
 // theory curve with a typo shows as a gap, not a crash.
 package theory
 
-import "math"
+import (
+	"math"
+	"math/bits"
+)
 
 // FromDB converts a ratio in dB to linear units, 10^(dB/10).
 func FromDB(db float64) float64 { return math.Pow(10, db/10) }
@@ -33,9 +36,5 @@ func log2M(M int) int {
 	if M < 2 || M&(M-1) != 0 {
 		return 0
 	}
-	k := 0
-	for 1<<k < M {
-		k++
-	}
-	return k
+	return bits.TrailingZeros(uint(M))
 }
