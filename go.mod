@@ -1,6 +1,6 @@
 module tally
 
-go 1.26.8
+go 1.26
 
 require (
 	github.com/fsnotify/fsnotify v1.10.1
