@@ -217,6 +217,22 @@ func (d *Detector) axisDetect(f *link.Frame, y []complex128, soft, exact bool) {
 			b[0], b[1] = sign(real(v)), sign(math.Abs(real(v))-t)
 			b[2], b[3] = sign(imag(v)), sign(math.Abs(imag(v))-t)
 		}
+	case !soft && a.L == 8: // 64-QAM, 8-PAM
+		c := (*[7]float64)(a.cuts)
+		for i, v := range y {
+			decide8(real(v), c, d.hard[i*k:i*k+h])
+			if m.axes == 2 {
+				decide8(imag(v), c, d.hard[i*k+h:i*k+k])
+			}
+		}
+	case !soft && a.L == 16: // 256-QAM, 16-PAM
+		c := (*[15]float64)(a.cuts)
+		for i, v := range y {
+			decide16(real(v), c, d.hard[i*k:i*k+h])
+			if m.axes == 2 {
+				decide16(imag(v), c, d.hard[i*k+h:i*k+k])
+			}
+		}
 	case !soft:
 		for i, v := range y {
 			a.decide(real(v), d.hard[i*k:i*k+h])

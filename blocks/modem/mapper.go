@@ -84,6 +84,9 @@ func (b *Mapper) Process(f *link.Frame, r *rng.Stream) error {
 	return nil
 }
 
+// bpskPoints[b] is the BPSK point of bit b: 1 − 2b.
+var bpskPoints = [2]complex128{1, -1}
+
 // grayInv[l] is the position q with gray(q) = l, for two bits.
 var grayInv = [4]int{0, 1, 3, 2}
 
@@ -94,8 +97,9 @@ func (b *Mapper) mapAxis(c []byte) {
 	a := &m.axis
 	switch {
 	case m.axes == 1 && a.L == 2:
+		buf := b.buf[:len(c)]
 		for i, x := range c {
-			b.buf[i] = complex(1-2*float64(x&1), 0)
+			buf[i] = bpskPoints[x&1]
 		}
 	case m.axes == 2 && a.L == 2:
 		d := a.d
