@@ -1,6 +1,9 @@
 // Package pulse holds pulse shaping and symbol timing: the root-raised-cosine transmit filter,
-// its matched filter, the sampler that returns to one sample per symbol, and a timing
-// impairment (fractional delay and sampling-clock offset).
+// its matched filter, the sampler that returns to one sample per symbol, a timing impairment
+// (fractional delay and sampling-clock offset), and Gardner timing recovery, which takes the
+// sampler's place when the receiver must find the symbol instants itself:
+//
+//	link.Chain(src, mod, p.Shape(), pulse.Timing(0.3), channel.AWGN(ebn0), p.Match(), pulse.Gardner(), demod)
 //
 // A typical oversampled link:
 //

@@ -13,12 +13,14 @@ import (
 func init() {
 	Symbols["tally/blocks/pulse/pulse"] = map[string]reflect.Value{
 		// function, constant and variable definitions
-		"Lead":   reflect.ValueOf(pulse.Lead),
-		"RRC":    reflect.ValueOf(pulse.RRC),
-		"Sample": reflect.ValueOf(pulse.Sample),
-		"Timing": reflect.ValueOf(pulse.Timing),
+		"Gardner": reflect.ValueOf(pulse.Gardner),
+		"Lead":    reflect.ValueOf(pulse.Lead),
+		"RRC":     reflect.ValueOf(pulse.RRC),
+		"Sample":  reflect.ValueOf(pulse.Sample),
+		"Timing":  reflect.ValueOf(pulse.Timing),
 
 		// type definitions
+		"GardnerLoop":      reflect.ValueOf((*pulse.GardnerLoop)(nil)),
 		"Matched":          reflect.ValueOf((*pulse.Matched)(nil)),
 		"RootRaisedCosine": reflect.ValueOf((*pulse.RootRaisedCosine)(nil)),
 		"Sampler":          reflect.ValueOf((*pulse.Sampler)(nil)),
