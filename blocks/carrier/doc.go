@@ -31,9 +31,9 @@
 //		channel.AWGN(db), carrier.MPower(32), m.Demod())
 //
 // (the recovery reads the frame's constellation, which for DQPSK is {1, j, −1, −j}, four-fold).
-// Differential detection costs Eb/N0 against coherent QPSK; coherent detection followed by
-// differential decoding, which keeps the slip tolerance for about twice the coherent BER, is
-// not provided here.
+// Differential detection costs Eb/N0 against coherent QPSK. Coherent detection followed by
+// differential decoding keeps the slip tolerance for about twice the coherent BER:
+// modem.DEQPSK (and DEBPSK) behind the recovery.
 package carrier
 
 import (

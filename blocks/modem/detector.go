@@ -109,7 +109,7 @@ func (d *Detector) Process(f *link.Frame, r *rng.Stream) error {
 	}
 	ns := len(f.Samples) / sps
 	nb := ns * m.Bits
-	if m.kind == kindDBPSK || m.kind == kindDQPSK {
+	if m.kind == kindDBPSK || m.kind == kindDQPSK || m.kind == kindDEBPSK || m.kind == kindDEQPSK {
 		if ns == 0 {
 			return fmt.Errorf("no reference symbol in an empty frame")
 		}
@@ -148,6 +148,8 @@ func (d *Detector) Process(f *link.Frame, r *rng.Stream) error {
 		d.ookDetect(f, y, soft)
 	case kindFSK:
 		d.fskDetect(f, soft)
+	case kindDEBPSK, kindDEQPSK:
+		d.deDetect(f, y, soft, exact)
 	case kindDBPSK, kindDQPSK, kindNCFSK:
 		f.MakeComplex(r) // these detectors use both dimensions of a real signal's noise
 		switch m.kind {

@@ -64,6 +64,10 @@ func (b *Mapper) Process(f *link.Frame, r *rng.Stream) error {
 			b.buf[i+1] = quarter[p]
 		}
 		ns++
+	case kindDEBPSK, kindDEQPSK:
+		b.buf = link.GrowComplex(b.buf, ns+1)
+		mapDE(m, c, b.buf, ns)
+		ns++
 	case kindFSK, kindNCFSK:
 		b.buf = link.GrowComplex(b.buf, 2*ns)
 		for i, x := range c {

@@ -1,8 +1,9 @@
 // Package modem holds the modulators and detectors: bits to complex baseband symbols and back.
 //
 // A Modem is one modulation scheme, made by its constructor (BPSK, QPSK, PSK, QAM, PAM, OOK,
-// DBPSK, DQPSK, BFSK, BFSKNoncoherent). Its Mod block maps the frame's coded bits to symbols and
-// its Demod block decides them again, giving hard decisions and, when asked, soft outputs:
+// DBPSK, DQPSK, DEBPSK, DEQPSK, BFSK, BFSKNoncoherent). Its Mod block maps the frame's coded
+// bits to symbols and its Demod block decides them again, giving hard decisions and, when
+// asked, soft outputs:
 //
 //	m := modem.QAM(16)
 //	link.Chain(source.Random(4096), m.Mod(), channel.AWGN(ebn0), m.Demod())
@@ -28,18 +29,20 @@ import (
 type kind int
 
 const (
-	kindAxis  kind = iota // BPSK, M-PAM (one real axis) and square M-QAM, QPSK (two axes)
-	kindPSK               // M-PSK, M ≥ 8
-	kindOOK               // on-off keying
-	kindDBPSK             // differential BPSK
-	kindDQPSK             // differential QPSK
-	kindFSK               // coherent binary FSK
-	kindNCFSK             // noncoherent binary FSK
+	kindAxis   kind = iota // BPSK, M-PAM (one real axis) and square M-QAM, QPSK (two axes)
+	kindPSK                // M-PSK, M ≥ 8
+	kindOOK                // on-off keying
+	kindDBPSK              // differential BPSK
+	kindDQPSK              // differential QPSK
+	kindFSK                // coherent binary FSK
+	kindNCFSK              // noncoherent binary FSK
+	kindDEBPSK             // differentially encoded BPSK, coherent detection
+	kindDEQPSK             // differentially encoded QPSK, coherent detection
 )
 
 // Modem is a modulation scheme: its labelled constellation and the blocks that use it.
 type Modem struct {
-	Scheme string // "BPSK", "QPSK", "PSK", "QAM", "PAM", "OOK", "DBPSK", "DQPSK", "BFSK", "BFSK-NC"
+	Scheme string // "BPSK", "QPSK", "PSK", "QAM", "PAM", "OOK", "DBPSK", "DQPSK", "DEBPSK", "DEQPSK", "BFSK", "BFSK-NC"
 	M      int    // number of symbols
 	Bits   int    // bits per symbol, log2(M)
 
@@ -54,8 +57,9 @@ type Modem struct {
 
 // Points is the constellation indexed by label (a copy): Points()[l] is the point sent for the
 // bits of l, most significant first. For DBPSK and DQPSK it is the phase change a label causes
-// (the factor the previous symbol is multiplied by); BFSK has no single complex point per
-// symbol (two tones, see BFSK) and gives nil.
+// (the factor the previous symbol is multiplied by); for DEBPSK and DEQPSK it is BPSK's and
+// QPSK's alphabet, the points on the wire, whose labels are not the data (see DEQPSK); BFSK
+// has no single complex point per symbol (two tones, see BFSK) and gives nil.
 func (m *Modem) Points() []complex128 { return append([]complex128(nil), m.points...) }
 
 // Err reports a parameter the constructor could not accept.
@@ -67,7 +71,7 @@ func (m *Modem) Name() string { return m.name }
 // Real reports whether the constellation lies on the real axis.
 func (m *Modem) Real() bool {
 	switch m.kind {
-	case kindAxis:
+	case kindAxis, kindDEBPSK:
 		return m.axes == 1
 	case kindOOK, kindDBPSK, kindFSK, kindNCFSK:
 		return true

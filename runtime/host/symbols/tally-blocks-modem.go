@@ -17,6 +17,8 @@ func init() {
 		"BFSKNoncoherent": reflect.ValueOf(modem.BFSKNoncoherent),
 		"BPSK":            reflect.ValueOf(modem.BPSK),
 		"DBPSK":           reflect.ValueOf(modem.DBPSK),
+		"DEBPSK":          reflect.ValueOf(modem.DEBPSK),
+		"DEQPSK":          reflect.ValueOf(modem.DEQPSK),
 		"DQPSK":           reflect.ValueOf(modem.DQPSK),
 		"LogMAPLLR":       reflect.ValueOf(modem.LogMAPLLR),
 		"MaxLogLLR":       reflect.ValueOf(modem.MaxLogLLR),

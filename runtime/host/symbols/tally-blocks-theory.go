@@ -23,6 +23,8 @@ func init() {
 		"ConvK7Hard":      reflect.ValueOf(theory.ConvK7Hard),
 		"ConvK7Soft":      reflect.ValueOf(theory.ConvK7Soft),
 		"DBPSK":           reflect.ValueOf(theory.DBPSK),
+		"DEBPSK":          reflect.ValueOf(theory.DEBPSK),
+		"DEQPSK":          reflect.ValueOf(theory.DEQPSK),
 		"DQPSK":           reflect.ValueOf(theory.DQPSK),
 		"EbN0For":         reflect.ValueOf(theory.EbN0For),
 		"FromDB":          reflect.ValueOf(theory.FromDB),
