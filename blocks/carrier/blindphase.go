@@ -29,7 +29,6 @@ type BlindPhaseSearch struct {
 	pre  []float64
 	best []float64
 	est  []float64
-	rot  []complex128
 	s    slicer
 }
 

@@ -10,7 +10,6 @@ package engine
 
 import (
 	"context"
-	"errors"
 	"fmt"
 	"math"
 	"runtime"
@@ -386,9 +385,6 @@ func finish(out Outcome, prog *stop.Progress, start time.Time, before time.Durat
 	out.Elapsed = before + time.Since(start)
 	return out
 }
-
-// ErrNoRules is returned by callers that refuse a point with nothing to end it.
-var ErrNoRules = errors.New("no stop rule: the point would never end")
 
 // Extrapolate guesses how many frames in all a point needs for a rule to be met, from a
 // prefix p that meets none: the counts scaled up in 5 % steps as if the rates held, plus a

@@ -45,8 +45,7 @@ type Config struct {
 	Log     io.Writer // progress and summaries (default stderr)
 	Stdout  io.Writer // the script's own prints (default stdout)
 	// Done receives each finished run before its files are written.
-	Done  func(r *result.Run) error
-	Extra map[string]string
+	Done func(r *result.Run) error
 	// Long are the checkpoint, resume, shard and merge settings (nil: no checkpoint).
 	Long *longrun.Settings
 }
@@ -86,8 +85,7 @@ func Run(ctx context.Context, path string, cfg Config) error {
 	marked, mk := instrument(fset, file, src)
 	sim.Hosted()
 	opts := &sim.Options{Context: ctx, Script: path, Source: src, Mode: "interpreted", Workers: cfg.Workers,
-		Seed: cfg.Seed, SeedSet: cfg.Seed != 0 || cfg.SeedSet, Quiet: cfg.Quiet, Log: cfg.Log, Done: cfg.Done, Extra: cfg.Extra, Long: cfg.Long}
-	opts.SeedSet = cfg.SeedSet
+		Seed: cfg.Seed, SeedSet: cfg.SeedSet, Quiet: cfg.Quiet, Log: cfg.Log, Done: cfg.Done, Long: cfg.Long}
 	var stderr bytes.Buffer
 	stdout := cfg.Stdout
 	if stdout == nil {

@@ -14,9 +14,6 @@ type File struct {
 	Data []byte
 }
 
-// Extra, when set, adds files to every Write after the plots; the summary links those it names.
-var Extra func(r *result.Run) ([]File, error)
-
 // Files are all the files of a run, in the order they are written.
 func Files(r *result.Run) ([]File, error) {
 	rec, err := Record(r)
@@ -24,20 +21,13 @@ func Files(r *result.Run) ([]File, error) {
 		return nil, err
 	}
 	files := []File{{"table.csv", Table(r)}, {"run.json", rec}}
-	extra, err := plotFiles(r)
+	plots, err := plotFiles(r)
 	if err != nil {
 		return nil, err
 	}
-	if Extra != nil {
-		more, err := Extra(r)
-		if err != nil {
-			return nil, err
-		}
-		extra = append(extra, more...)
-	}
-	files = append(files, extra...)
-	names := make([]string, len(extra))
-	for i, f := range extra {
+	files = append(files, plots...)
+	names := make([]string, len(plots))
+	for i, f := range plots {
 		names[i] = f.Name
 	}
 	files = append(files, File{"README.md", Summary(r, names)})

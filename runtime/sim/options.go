@@ -32,8 +32,6 @@ type Options struct {
 	// Where, set by the host, names the script statement being run ("file:line:col"), so a
 	// mistake found during Run can point at the script.
 	Where func() string
-	// Extra is free-form, for settings of the run layer that have no field yet.
-	Extra map[string]string
 	// Long are the checkpoint, resume, shard and merge settings; nil keeps no checkpoint.
 	Long *longrun.Settings
 
