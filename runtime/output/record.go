@@ -1,7 +1,6 @@
 package output
 
 import (
-	"encoding/json"
 	"math"
 
 	"tally/runtime/result"
@@ -46,6 +45,8 @@ func Record(r *result.Run) ([]byte, error) {
 		}
 		rec.Points = append(rec.Points, rp)
 	}
-	b, err := json.MarshalIndent(rec, "", "  ")
+	// JSON, not encoding/json: a value with no JSON form (an interval open at one end) is null,
+	// never a run lost at its end.
+	b, err := JSON(rec)
 	return append(b, '\n'), err
 }

@@ -91,7 +91,7 @@ func targetLine(r *result.Run, t result.Target) string {
 	if !t.Found {
 		return fmt.Sprintf("%s = %g%s: not bracketed by the sweep (%s)", t.Tap, t.Rate, where, t.Note)
 	}
-	s := fmt.Sprintf("%s = %g%s at %s = %.2f, interval [%.2f, %.2f]", t.Tap, t.Rate, where, x, t.X, t.Low, t.High)
+	s := fmt.Sprintf("%s = %g%s at %s = %.2f, interval [%s, %s]", t.Tap, t.Rate, where, x, t.X, end(t.Low), end(t.High))
 	if t.Against != "" && t.Note == "" {
 		more := "more"
 		if t.Penalty < 0 {
@@ -109,5 +109,16 @@ func targetLine(r *result.Run, t result.Target) string {
 	if t.Note != "" {
 		s += " (" + t.Note + ")"
 	}
+	if t.Open != "" {
+		s += " (" + t.Open + ")"
+	}
 	return s
+}
+
+// end is an end of a crossing's interval: "open" when the sweep does not close it.
+func end(v float64) string {
+	if math.IsInf(v, 0) || math.IsNaN(v) {
+		return "open"
+	}
+	return fmt.Sprintf("%.2f", v)
 }

@@ -28,9 +28,10 @@ func tapColumns(tap string) []string {
 }
 
 // Num formats a rate or interval bound: six significant digits, the same bytes on every run;
-// an undefined value (NaN, a theory curve with no value there) is an empty cell.
+// an undefined or unbounded value (NaN, ±Inf: a theory curve with no value there, an open end)
+// is an empty cell.
 func Num(v float64) string {
-	if math.IsNaN(v) {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return ""
 	}
 	return strconv.FormatFloat(v, 'g', 6, 64)

@@ -67,8 +67,8 @@ type Target struct {
 	Curve   string  `json:"curve,omitempty"` // the value of the second sweep parameter, for grids
 	Found   bool    `json:"found"`
 	X       float64 `json:"x"`
-	Low     float64 `json:"x_low"`
-	High    float64 `json:"x_high"`
+	Low     float64 `json:"x_low"`                // −Inf (null in run.json) when open below
+	High    float64 `json:"x_high"`               // +Inf (null in run.json) when open above
 	Against string  `json:"against,omitempty"`    // theory curve compared with
 	Penalty float64 `json:"penalty_db,omitempty"` // X minus the theory's value at the target
 	TheoryX float64 `json:"theory_x,omitempty"`   // where the theory curve reaches the target
@@ -77,6 +77,9 @@ type Target struct {
 	Gain     float64 `json:"gain_db,omitempty"`
 	GainOver string  `json:"gain_over,omitempty"`
 	Note     string  `json:"note,omitempty"`
+	// Open says why an end of the interval is open: the points' limits do not close it inside
+	// the sweep on that side.
+	Open string `json:"open,omitempty"`
 }
 
 // Scatter is what the receiver saw in one frame of one point.

@@ -2,6 +2,8 @@ package sim
 
 import (
 	"fmt"
+	"math"
+	"strings"
 
 	"tally/blocks/stats"
 	"tally/runtime/result"
@@ -35,6 +37,7 @@ func (x *Experiment) findTargets(run *result.Run) {
 				tr.Note = err.Error()
 			} else {
 				tr.Found, tr.X, tr.Low, tr.High = true, cr.X, cr.Low, cr.High
+				tr.Open = openEnds(cr.Low, cr.High)
 				if t.against != "" {
 					ci := -1
 					for i, n := range run.Theory {
@@ -68,4 +71,17 @@ func (x *Experiment) findTargets(run *result.Run) {
 			run.Targets = append(run.Targets, tr)
 		}
 	}
+}
+
+// openEnds says which ends of a crossing's interval the sweep leaves open, and why ("" when
+// both are closed). The writers show an open end as null or an empty cell with this word.
+func openEnds(low, high float64) string {
+	var w []string
+	if math.IsInf(low, 0) || math.IsNaN(low) {
+		w = append(w, "open below: no point's lower limit reaches the target, so the crossing may lie before the first point")
+	}
+	if math.IsInf(high, 0) || math.IsNaN(high) {
+		w = append(w, "open above: no point's upper limit falls to the target, so the crossing may lie beyond the last point")
+	}
+	return strings.Join(w, "; ")
 }
