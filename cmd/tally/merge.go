@@ -15,7 +15,7 @@ import (
 
 	"tally/runtime/host"
 	"tally/runtime/longrun"
-	"tally/runtime/sim"
+	"tally/runtime/output"
 )
 
 func init() {
@@ -78,7 +78,7 @@ func mergeCmd(args []string, stdout, stderr io.Writer) int {
 	ctx, stopSignals := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stopSignals()
 	err = host.Run(ctx, path, cfg)
-	dir := sim.OutputDir(path)
+	dir := output.Dir(path)
 	if set.Short != nil {
 		fmt.Fprintln(stderr, "tally merge:", set.Short)
 		plan := &longrun.Plan{SHA256: m.SHA256, Seed: m.Seed, Of: m.Of, Points: set.Short.Points}

@@ -91,7 +91,7 @@ func exitCode(err error, stderr io.Writer) int {
 	switch {
 	case err == nil:
 		return 0
-	case errors.Is(err, sim.ErrInterrupted):
+	case errors.Is(err, host.ErrInterrupted):
 		fmt.Fprintln(stderr, "interrupted: finished points written")
 		return 130
 	default:

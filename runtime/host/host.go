@@ -27,10 +27,15 @@ import (
 	yunsafe "github.com/traefik/yaegi/stdlib/unsafe"
 
 	"tally/runtime/host/symbols"
+	"tally/runtime/internal/runner"
 	"tally/runtime/longrun"
 	"tally/runtime/result"
 	"tally/runtime/sim"
 )
+
+// ErrInterrupted is the error of a run ended by its context (Ctrl-C); its finished points are
+// written.
+var ErrInterrupted = runner.ErrInterrupted
 
 // stuckGrace is how long an ended run may take to stop before the interpreter is stopped.
 const stuckGrace = 3 * time.Second
@@ -65,7 +70,7 @@ func (e *ScriptError) Error() string {
 
 // Run evaluates the script at path, which runs its experiment(s) and writes their outputs.
 // A mistake in the script comes back as a *ScriptError; an interrupted run as
-// sim.ErrInterrupted (its finished points written).
+// ErrInterrupted (its finished points written).
 func Run(ctx context.Context, path string, cfg Config) error {
 	src, err := os.ReadFile(path)
 	if err != nil {
@@ -83,8 +88,8 @@ func Run(ctx context.Context, path string, cfg Config) error {
 		return err
 	}
 	marked, mk := instrument(fset, file, src)
-	sim.Hosted()
-	opts := &sim.Options{Context: ctx, Script: path, Source: src, Mode: "interpreted", Workers: cfg.Workers,
+	runner.Hosted()
+	opts := &runner.Options{Context: ctx, Script: path, Source: src, Mode: "interpreted", Workers: cfg.Workers,
 		Seed: cfg.Seed, SeedSet: cfg.SeedSet, Quiet: cfg.Quiet, Log: cfg.Log, Done: cfg.Done, Long: cfg.Long}
 	var stderr bytes.Buffer
 	stdout := cfg.Stdout
@@ -131,7 +136,7 @@ func Run(ctx context.Context, path string, cfg Config) error {
 	}()
 	_, err = i.EvalPathWithContext(evalCtx, name)
 	if err != nil && errors.Is(err, context.Canceled) && ctx.Err() != nil {
-		return sim.ErrInterrupted
+		return ErrInterrupted
 	}
 	if err != nil {
 		return translate(path, err, mk)
@@ -143,7 +148,7 @@ func Run(ctx context.Context, path string, cfg Config) error {
 }
 
 // bound are tally's symbols with sim.New bound to this run's options.
-func bound(opts *sim.Options) interp.Exports {
+func bound(opts *runner.Options) interp.Exports {
 	out := interp.Exports{}
 	for k, v := range symbols.Symbols {
 		out[k] = v
@@ -153,7 +158,7 @@ func bound(opts *sim.Options) interp.Exports {
 	for k, v := range symbols.Symbols[key] {
 		simSyms[k] = v
 	}
-	simSyms["New"] = reflect.ValueOf(func(name string) *sim.Experiment { return sim.NewWith(name, opts) })
+	simSyms["New"] = reflect.ValueOf(func(name string) *sim.Experiment { return runner.NewExperiment(name, opts).(*sim.Experiment) })
 	out[key] = simSyms
 	return out
 }
@@ -166,10 +171,10 @@ var posRE = regexp.MustCompile(`^(?:(.*?):)?(\d+):(\d+): (.*)$`)
 func translate(path string, err error, mk *marks) error {
 	var pn interp.Panic
 	if errors.As(err, &pn) {
-		if e, ok := pn.Value.(error); ok && errors.Is(e, sim.ErrInterrupted) {
-			return sim.ErrInterrupted
+		if e, ok := pn.Value.(error); ok && errors.Is(e, ErrInterrupted) {
+			return ErrInterrupted
 		}
-		var f *sim.Failure
+		var f *runner.Failure
 		if e, ok := pn.Value.(error); ok && errors.As(e, &f) && f.Pos != "" {
 			return &ScriptError{Pos: f.Pos, Msg: f.Err.Error()}
 		}

@@ -13,8 +13,6 @@ import (
 	"sync"
 	"testing"
 	"time"
-
-	"tally/runtime/sim"
 )
 
 // scriptIn copies a test script into a fresh folder, so its outputs land there.
@@ -173,7 +171,7 @@ func TestInterruptKeepsFinishedPoints(t *testing.T) {
 	log := &lineWatch{after: 2, do: func() { time.AfterFunc(200*time.Millisecond, cancel) }}
 	err := Run(ctx, p, Config{Workers: 2, Log: log})
 	begin := log.at // when the cancel was set off
-	if !errors.Is(err, sim.ErrInterrupted) {
+	if !errors.Is(err, ErrInterrupted) {
 		t.Fatalf("want ErrInterrupted, got %v", err)
 	}
 	if d := time.Since(begin); d > 10*time.Second {
@@ -219,7 +217,7 @@ func TestInterruptStopsStuckScript(t *testing.T) {
 	defer cancel()
 	begin := time.Now()
 	err := Run(ctx, p, quiet(1))
-	if !errors.Is(err, sim.ErrInterrupted) {
+	if !errors.Is(err, ErrInterrupted) {
 		t.Fatalf("want ErrInterrupted, got %v", err)
 	}
 	if d := time.Since(begin); d > stuckGrace+5*time.Second {

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"tally/runtime/result"
 )
@@ -104,4 +105,9 @@ func firstErr(errs ...error) error {
 		}
 	}
 	return nil
+}
+
+// Dir is the folder beside a script that holds its outputs: dir/<name>.go → dir/<name>.
+func Dir(script string) string {
+	return strings.TrimSuffix(script, filepath.Ext(script))
 }

@@ -21,57 +21,44 @@ import (
 
 	"tally/blocks/link"
 	"tally/blocks/stop"
+	"tally/runtime/internal/runner"
 )
 
-// Experiment is one experiment: its sweep, link, rules and curves.
+// Experiment is one experiment: its sweep, link, rules and curves. It holds declarations
+// only; how it runs (workers, seed override, checkpoints) and where its outputs go come from
+// the command line or the host, never from the script.
 type Experiment struct {
-	name       string
-	params     []param
-	build      func(p Point) *link.Link
-	rules      []stop.Rule
-	sweepRules []stop.SweepRule
-	scatterAt  []float64
-	theory     []curve
-	targets    []target
-	confidence float64
-	method     string
-	seed       uint64
-	opts       *Options
+	spec runner.Spec
+	opts *runner.Options
 }
 
-type param struct {
-	name   string
-	values []float64
-	labels []string
-}
-
-type curve struct {
-	name string
-	fn   func(p Point) float64
-}
-
-type target struct {
-	tap     string
-	rate    float64
-	against string
-}
+// DefaultSeed is the seed of a run that names none; it is recorded in every run record.
+const DefaultSeed = runner.DefaultSeed
 
 // New starts an experiment; name titles its outputs.
-func New(name string) *Experiment { return NewWith(name, commandLine()) }
+func New(name string) *Experiment { return newExperiment(name, runner.CommandLine()) }
+
+func newExperiment(name string, o *runner.Options) *Experiment {
+	return &Experiment{spec: runner.NewSpec(name), opts: o}
+}
+
+func init() {
+	runner.NewExperiment = func(name string, o *runner.Options) any { return newExperiment(name, o) }
+}
 
 // Sweep adds a swept parameter with its values. The first Sweep is the x axis; each further one
 // multiplies the grid (one curve per value in the plot).
 func (x *Experiment) Sweep(name string, values ...float64) *Experiment {
 	x.checkName(name)
 	if len(values) == 0 {
-		fail(fmt.Errorf("sim.Sweep: parameter %q has no values", name))
+		runner.Fail(fmt.Errorf("sim.Sweep: parameter %q has no values", name))
 	}
 	for _, v := range values {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			fail(fmt.Errorf("sim.Sweep: parameter %q has value %v, not a finite number", name, v))
+			runner.Fail(fmt.Errorf("sim.Sweep: parameter %q has value %v, not a finite number", name, v))
 		}
 	}
-	x.params = append(x.params, param{name: name, values: append([]float64(nil), values...)})
+	x.spec.Params = append(x.spec.Params, runner.Param{Name: name, Values: append([]float64(nil), values...)})
 	return x
 }
 
@@ -80,23 +67,23 @@ func (x *Experiment) Sweep(name string, values ...float64) *Experiment {
 func (x *Experiment) SweepLabels(name string, labels ...string) *Experiment {
 	x.checkName(name)
 	if len(labels) == 0 {
-		fail(fmt.Errorf("sim.SweepLabels: parameter %q has no labels", name))
+		runner.Fail(fmt.Errorf("sim.SweepLabels: parameter %q has no labels", name))
 	}
 	v := make([]float64, len(labels))
 	for i := range v {
 		v[i] = float64(i)
 	}
-	x.params = append(x.params, param{name: name, values: v, labels: append([]string(nil), labels...)})
+	x.spec.Params = append(x.spec.Params, runner.Param{Name: name, Values: v, Labels: append([]string(nil), labels...)})
 	return x
 }
 
 func (x *Experiment) checkName(name string) {
 	if !isColumnName(name) {
-		fail(fmt.Errorf("sim.Sweep: parameter name %q must be letters, digits and _ (it names a table column)", name))
+		runner.Fail(fmt.Errorf("sim.Sweep: parameter name %q must be letters, digits and _ (it names a table column)", name))
 	}
-	for _, p := range x.params {
-		if p.name == name {
-			fail(fmt.Errorf("sim.Sweep: parameter %q is swept twice", name))
+	for _, p := range x.spec.Params {
+		if p.Name == name {
+			runner.Fail(fmt.Errorf("sim.Sweep: parameter %q is swept twice", name))
 		}
 	}
 }
@@ -104,7 +91,11 @@ func (x *Experiment) checkName(name string) {
 // Link sets the function that builds the link for a point. It is called once per worker and
 // point, since blocks keep buffers; it must build the same link every time for the same point.
 func (x *Experiment) Link(build func(p Point) *link.Link) *Experiment {
-	x.build = build
+	if build == nil {
+		x.spec.Build = nil
+		return x
+	}
+	x.spec.Build = func(p runner.Point) *link.Link { return build(pointOf(p)) }
 	return x
 }
 
@@ -113,24 +104,24 @@ func (x *Experiment) Link(build func(p Point) *link.Link) *Experiment {
 func (x *Experiment) Stop(rules ...stop.Rule) *Experiment {
 	for _, r := range rules {
 		if r == nil {
-			fail(fmt.Errorf("sim.Stop: a rule is nil"))
+			runner.Fail(fmt.Errorf("sim.Stop: a rule is nil"))
 		}
 		if c, ok := r.(link.Checked); ok {
 			if err := c.Err(); err != nil {
-				fail(err)
+				runner.Fail(err)
 			}
 		}
 	}
-	x.rules = append(x.rules, rules...)
+	x.spec.Rules = append(x.spec.Rules, rules...)
 	return x
 }
 
 // Theory adds a curve to compare with: a column in the table, a dashed line in the plot.
 func (x *Experiment) Theory(name string, fn func(p Point) float64) *Experiment {
 	if !isColumnName(name) {
-		fail(fmt.Errorf("sim.Theory: curve name %q must be letters, digits and _ (it names a table column)", name))
+		runner.Fail(fmt.Errorf("sim.Theory: curve name %q must be letters, digits and _ (it names a table column)", name))
 	}
-	x.theory = append(x.theory, curve{name: name, fn: fn})
+	x.spec.Theory = append(x.spec.Theory, runner.Curve{Name: name, Fn: func(p runner.Point) float64 { return fn(pointOf(p)) }})
 	return x
 }
 
@@ -143,36 +134,72 @@ func (x *Experiment) Target(rate float64, against ...string) *Experiment {
 // TargetOn is Target on another tap ("fer", "pre", or a tap of the script's own).
 func (x *Experiment) TargetOn(tap string, rate float64, against ...string) *Experiment {
 	if !(rate > 0 && rate < 1) {
-		fail(fmt.Errorf("sim.Target: rate %v must lie between 0 and 1", rate))
+		runner.Fail(fmt.Errorf("sim.Target: rate %v must lie between 0 and 1", rate))
 	}
-	t := target{tap: tap, rate: rate}
+	t := runner.Target{Tap: tap, Rate: rate}
 	if len(against) > 0 {
-		t.against = against[0]
+		t.Against = against[0]
 	}
-	x.targets = append(x.targets, t)
+	x.spec.Targets = append(x.spec.Targets, t)
 	return x
 }
 
 // Confidence sets the confidence level of the intervals (default 0.95).
 func (x *Experiment) Confidence(level float64) *Experiment {
 	if !(level > 0 && level < 1) {
-		fail(fmt.Errorf("sim.Confidence: level %v must lie strictly between 0 and 1", level))
+		runner.Fail(fmt.Errorf("sim.Confidence: level %v must lie strictly between 0 and 1", level))
 	}
-	x.confidence = level
+	x.spec.Confidence = level
 	return x
 }
 
 // Interval sets the interval method: "clopper-pearson" (default), "wilson" or "jeffreys".
 func (x *Experiment) Interval(method string) *Experiment {
-	x.method = method
+	x.spec.Method = method
 	return x
 }
 
 // Seed sets the experiment's seed (a -seed flag on the command line overrides it).
 func (x *Experiment) Seed(seed uint64) *Experiment {
-	x.seed = seed
+	x.spec.Seed = seed
 	return x
 }
+
+// StopSweep sets rules that end or thin each curve along the x axis: stop.Floor ends a curve
+// after its first point shown below a floor BER, stop.Budget skips points predicted to need
+// more bits than a cap. Skipped points stay in the table with stop "skipped" and the reason in
+// run.json.
+func (x *Experiment) StopSweep(rules ...stop.SweepRule) *Experiment {
+	for _, r := range rules {
+		if r == nil {
+			runner.Fail(fmt.Errorf("sim.StopSweep: a rule is nil"))
+		}
+		if c, ok := r.(link.Checked); ok {
+			if err := c.Err(); err != nil {
+				runner.Fail(err)
+			}
+		}
+	}
+	x.spec.SweepRules = append(x.spec.SweepRules, rules...)
+	return x
+}
+
+// Scatter asks for a constellation plot (scatter.svg, scatter.png) of the first frame of the
+// point whose parameters have these values, in sweep order (Scatter(12) on an Eb/N0 sweep;
+// Scatter(12, 1) on a grid): the samples as the last block of the link left them, over the
+// modulator's points.
+func (x *Experiment) Scatter(values ...float64) *Experiment {
+	if len(values) == 0 {
+		runner.Fail(fmt.Errorf("sim.Scatter: name the point by its swept values"))
+	}
+	x.spec.ScatterAt = append([]float64(nil), values...)
+	return x
+}
+
+// Run runs every point and writes table.csv, run.json, the plots and README.md into the folder
+// named after the script beside it. A mistake stops the script with file:line: message. A
+// script runs one experiment: a second Run is refused.
+func (x *Experiment) Run() { runner.Run(&x.spec, x.opts) }
 
 func isColumnName(s string) bool {
 	if s == "" {

@@ -3,8 +3,8 @@ package sim
 import (
 	"fmt"
 	"math"
-	"strconv"
-	"strings"
+
+	"tally/runtime/internal/runner"
 )
 
 // Point is one point of the sweep: a value for every swept parameter.
@@ -15,37 +15,29 @@ type Point struct {
 	labels [][]string
 }
 
+func pointOf(p runner.Point) Point {
+	return Point{Index: p.Index, Names: p.Names, Values: p.Values, labels: p.Labels}
+}
+
+func (p Point) in() runner.Point {
+	return runner.Point{Index: p.Index, Names: p.Names, Values: p.Values, Labels: p.labels}
+}
+
 // Get is the value of the named parameter. An unknown name stops the script with a message
 // listing the swept names.
-func (p Point) Get(name string) float64 {
-	for i, n := range p.Names {
-		if n == name {
-			return p.Values[i]
-		}
-	}
-	fail(fmt.Errorf("sim.Point.Get: no swept parameter %q (swept: %s)", name, strings.Join(p.Names, ", ")))
-	return math.NaN()
-}
+func (p Point) Get(name string) float64 { return p.in().Get(name) }
 
 // Int is Get as an int, for counts such as bits of an ADC or a modulation order.
 func (p Point) Int(name string) int { return int(math.Round(p.Get(name))) }
 
 // Label is the label of a parameter swept with SweepLabels ("16-QAM"), or its value as text.
-func (p Point) Label(name string) string {
-	v := p.Get(name)
-	for i, n := range p.Names {
-		if n == name && p.labels[i] != nil {
-			return p.labels[i][int(v)]
-		}
-	}
-	return strconv.FormatFloat(v, 'g', -1, 64)
-}
+func (p Point) Label(name string) string { return p.in().Label(name) }
 
 // Range is from, from+step, … up to to (included when it falls on the grid, allowing for
 // rounding), computed as from + i·step so no error accumulates.
 func Range(from, to, step float64) []float64 {
 	if !(step > 0) || math.IsInf(from, 0) || math.IsInf(to, 0) || math.IsNaN(from) || math.IsNaN(to) {
-		fail(fmt.Errorf("sim.Range: step %v must be positive and the ends (%v, %v) finite", step, from, to))
+		runner.Fail(fmt.Errorf("sim.Range: step %v must be positive and the ends (%v, %v) finite", step, from, to))
 		return nil
 	}
 	var v []float64

@@ -9,8 +9,8 @@ import (
 	"path/filepath"
 	"strings"
 
+	"tally/runtime/output"
 	"tally/runtime/result"
-	"tally/runtime/sim"
 )
 
 // candidate reports whether a path in a watched folder may be an experiment: a .go file that
@@ -63,7 +63,7 @@ func experiments(dir string) ([]string, error) {
 // lastRun reads the run record beside a script, so the first run under watch can say what
 // changed since the outputs on disk. Nil when there is none or it does not parse.
 func lastRun(script string) *result.Run {
-	b, err := os.ReadFile(filepath.Join(sim.OutputDir(script), "run.json"))
+	b, err := os.ReadFile(filepath.Join(output.Dir(script), "run.json"))
 	if err != nil {
 		return nil
 	}

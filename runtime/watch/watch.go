@@ -24,9 +24,9 @@ import (
 	"github.com/fsnotify/fsnotify"
 
 	"tally/runtime/host"
+	"tally/runtime/output"
 	"tally/runtime/progress"
 	"tally/runtime/result"
-	"tally/runtime/sim"
 )
 
 // Config is how the watcher runs and reports.
@@ -425,7 +425,7 @@ func (w *watcher) finish(o outcome) {
 }
 
 func (w *watcher) report(path string, prev, run *result.Run, took time.Duration) {
-	w.printf("%s: %d points in %s → %s%c\n", path, len(run.Points), progress.Duration(took), sim.OutputDir(path), filepath.Separator)
+	w.printf("%s: %d points in %s → %s%c\n", path, len(run.Points), progress.Duration(took), output.Dir(path), filepath.Separator)
 	if prev == nil {
 		return
 	}

@@ -15,19 +15,12 @@ import (
 func init() {
 	Symbols["tally/runtime/sim/sim"] = map[string]reflect.Value{
 		// function, constant and variable definitions
-		"DefaultSeed":    reflect.ValueOf(constant.MakeFromLiteral("1", token.INT, 0)),
-		"ErrInterrupted": reflect.ValueOf(&sim.ErrInterrupted).Elem(),
-		"Hosted":         reflect.ValueOf(sim.Hosted),
-		"New":            reflect.ValueOf(sim.New),
-		"NewWith":        reflect.ValueOf(sim.NewWith),
-		"OutputDir":      reflect.ValueOf(sim.OutputDir),
-		"Range":          reflect.ValueOf(sim.Range),
-		"Version":        reflect.ValueOf(constant.MakeFromLiteral("\"0.1.0\"", token.STRING, 0)),
+		"DefaultSeed": reflect.ValueOf(constant.MakeFromLiteral("1", token.INT, 0)),
+		"New":         reflect.ValueOf(sim.New),
+		"Range":       reflect.ValueOf(sim.Range),
 
 		// type definitions
 		"Experiment": reflect.ValueOf((*sim.Experiment)(nil)),
-		"Failure":    reflect.ValueOf((*sim.Failure)(nil)),
-		"Options":    reflect.ValueOf((*sim.Options)(nil)),
 		"Point":      reflect.ValueOf((*sim.Point)(nil)),
 	}
 }

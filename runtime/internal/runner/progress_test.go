@@ -1,4 +1,4 @@
-package sim
+package runner
 
 import (
 	"bytes"
@@ -46,11 +46,11 @@ func progressRun(t *testing.T, o *Options) string {
 	var log bytes.Buffer
 	o.Log = &log
 	o.Workers = 1
-	x := NewWith("progress", o)
-	x.Sweep("ebn0_db", 0, 2)
-	x.Link(progressLink)
-	x.Stop(stop.Bits(20 * 512))
-	if _, err := x.Execute(); err != nil {
+	x := NewSpec("progress")
+	x.Params = []Param{{Name: "ebn0_db", Values: []float64{0, 2}}}
+	x.Build = progressLink
+	x.Rules = []stop.Rule{stop.Bits(20 * 512)}
+	if _, err := Execute(&x, o); err != nil {
 		t.Fatal(err)
 	}
 	return log.String()

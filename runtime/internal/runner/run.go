@@ -1,4 +1,4 @@
-package sim
+package runner
 
 import (
 	"context"
@@ -33,11 +33,26 @@ const burstSignificance = 0.001
 // ErrInterrupted is the error of a run ended by Ctrl-C (its finished points are written).
 var ErrInterrupted = errors.New("run interrupted")
 
-// Run runs every point and writes table.csv, run.json, the plots and README.md into the folder
-// named after the script beside it. A mistake stops the script with file:line: message.
-func (x *Experiment) Run() {
-	at := x.opts.where(3)
-	r, err := x.Execute()
+// experiment is a declared experiment with the options it runs under.
+type experiment struct {
+	*Spec
+	opts *Options
+}
+
+// Run runs a script's experiment (sim.Experiment.Run): every point, then table.csv, run.json,
+// the plots and README.md into the folder named after the script beside it. A mistake stops
+// the script with file:line: message; so does a second experiment in one script, whose
+// outputs would go to the same folder.
+func Run(s *Spec, o *Options) {
+	x := &experiment{Spec: s, opts: o}
+	at := o.where(3)
+	if o.ran != "" {
+		Fail(&Failure{Pos: at, Err: fmt.Errorf("sim: this script already ran the experiment %q, whose outputs are in %s; "+
+			"a script runs one experiment: put %q in a file of its own, or sweep both as choices of one experiment (x.SweepLabels)",
+			o.ran, output.Dir(o.Script), s.Name)})
+	}
+	o.ran = s.Name
+	r, err := x.execute()
 	if err != nil && !errors.Is(err, ErrInterrupted) {
 		var f *Failure
 		var pe *engine.PanicError
@@ -48,11 +63,11 @@ func (x *Experiment) Run() {
 		default:
 			err = &Failure{Pos: at, Err: err}
 		}
-		fail(err)
+		Fail(err)
 	}
 	if r != nil {
 		if werr := x.write(r); werr != nil {
-			fail(werr)
+			Fail(werr)
 		}
 	}
 	if errors.Is(err, ErrInterrupted) {
@@ -66,19 +81,23 @@ func (x *Experiment) Run() {
 
 // Execute runs the sweep and returns its result without writing files. The result of an
 // interrupted run holds the finished points and the interrupted one, with ErrInterrupted.
-func (x *Experiment) Execute() (*result.Run, error) {
+func Execute(s *Spec, o *Options) (*result.Run, error) {
+	return (&experiment{Spec: s, opts: o}).execute()
+}
+
+func (x *experiment) execute() (*result.Run, error) {
 	o := x.opts
-	if x.build == nil {
+	if x.Build == nil {
 		return nil, fmt.Errorf("sim: the experiment has no Link")
 	}
-	if len(x.params) == 0 {
+	if len(x.Params) == 0 {
 		return nil, fmt.Errorf("sim: the experiment sweeps nothing (add x.Sweep(\"ebn0_db\", …))")
 	}
 	ctx := o.Context
 	if ctx == nil {
 		ctx = context.Background()
 	}
-	seed := x.seed
+	seed := x.Seed
 	if o.SeedSet {
 		seed = o.Seed
 	}
@@ -86,25 +105,25 @@ func (x *Experiment) Execute() (*result.Run, error) {
 	if workers <= 0 {
 		workers = goruntime.NumCPU()
 	}
-	if _, err := stats.ForPoint(link.Tally{}, x.confidence, x.method, 0); err != nil {
+	if _, err := stats.ForPoint(link.Tally{}, x.Confidence, x.Method, 0); err != nil {
 		return nil, fmt.Errorf("sim.Interval: %w", err)
 	}
-	rules := x.rules
+	rules := x.Rules
 	if len(rules) == 0 {
 		rules = []stop.Rule{stop.Errors(100), stop.Bits(1e9)}
 	}
 	sum := sha256.Sum256(o.Source)
 	run := &result.Run{
-		Name: x.name, Script: filepath.Base(o.Script), ScriptSHA256: hex.EncodeToString(sum[:]),
+		Name: x.Name, Script: filepath.Base(o.Script), ScriptSHA256: hex.EncodeToString(sum[:]),
 		Tool: Version, GoVersion: goruntime.Version(), Mode: o.Mode, Seed: seed, Workers: workers,
-		Confidence: x.confidence, Method: x.method, Start: time.Now().UTC(),
+		Confidence: x.Confidence, Method: x.Method, Start: time.Now().UTC(),
 	}
-	for _, p := range x.params {
-		run.Params = append(run.Params, p.name)
+	for _, p := range x.Params {
+		run.Params = append(run.Params, p.Name)
 	}
 	run.Labels = x.labels()
-	for _, c := range x.theory {
-		run.Theory = append(run.Theory, c.name)
+	for _, c := range x.Theory {
+		run.Theory = append(run.Theory, c.Name)
 	}
 	points := x.grid()
 	for _, pt := range points {
@@ -139,7 +158,7 @@ func (x *Experiment) Execute() (*result.Run, error) {
 	return run, nil
 }
 
-func (x *Experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, seed uint64, workers int) (rp result.Point, err error) {
+func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, seed uint64, workers int) (rp result.Point, err error) {
 	build := func() (l *link.Link, err error) {
 		if !hosted {
 			defer func() {
@@ -148,7 +167,7 @@ func (x *Experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 				}
 			}()
 		}
-		l = x.build(pt)
+		l = x.Build(pt)
 		if l == nil {
 			return nil, fmt.Errorf("sim: the Link function returned nil for point %d", pt.Index+1)
 		}
@@ -171,14 +190,14 @@ func (x *Experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 			target = et.Count
 		}
 		c := out.Counts[i]
-		est, err := stats.ForPoint(c, x.confidence, x.method, target)
+		est, err := stats.ForPoint(c, x.Confidence, x.Method, target)
 		if err != nil {
 			return rp, err
 		}
 		// Errors shown to come in bursts break the independence every binomial interval rests
 		// on: widen the interval by the frames' dispersion rather than report it too narrow.
 		if stats.Bursty(c, burstSignificance) {
-			if est, err = stats.Clustered(c, est, x.confidence, x.method); err != nil {
+			if est, err = stats.Clustered(c, est, x.Confidence, x.Method); err != nil {
 				return rp, err
 			}
 		}
@@ -192,8 +211,8 @@ func (x *Experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 	if rp.Seconds > 0 && len(rp.Taps) > 0 {
 		rp.BitRate = float64(rp.Taps[0].Trials) / rp.Seconds
 	}
-	for _, c := range x.theory {
-		rp.Theory = append(rp.Theory, c.fn(pt))
+	for _, c := range x.Theory {
+		rp.Theory = append(rp.Theory, c.Fn(pt))
 	}
 	return rp, nil
 }
@@ -228,28 +247,28 @@ func alignTaps(run *result.Run) {
 
 // grid lists the points: the first parameter varies fastest, so each curve's points are
 // consecutive.
-func (x *Experiment) grid() []Point {
-	names := make([]string, len(x.params))
-	labels := make([][]string, len(x.params))
+func (x *experiment) grid() []Point {
+	names := make([]string, len(x.Params))
+	labels := make([][]string, len(x.Params))
 	n := 1
-	for i, p := range x.params {
-		names[i], labels[i] = p.name, p.labels
-		n *= len(p.values)
+	for i, p := range x.Params {
+		names[i], labels[i] = p.Name, p.Labels
+		n *= len(p.Values)
 	}
 	pts := make([]Point, n)
 	for k := range pts {
-		v := make([]float64, len(x.params))
+		v := make([]float64, len(x.Params))
 		rem := k
-		for i, p := range x.params {
-			v[i] = p.values[rem%len(p.values)]
-			rem /= len(p.values)
+		for i, p := range x.Params {
+			v[i] = p.Values[rem%len(p.Values)]
+			rem /= len(p.Values)
 		}
-		pts[k] = Point{Index: k, Names: names, Values: v, labels: labels}
+		pts[k] = Point{Index: k, Names: names, Values: v, Labels: labels}
 	}
 	return pts
 }
 
-func (x *Experiment) report(pt Point, rp result.Point) {
+func (x *experiment) report(pt Point, rp result.Point) {
 	x.opts.logf("%s\n", finishedLine(pt, rp))
 }
 
@@ -259,30 +278,30 @@ type curveView struct {
 }
 
 // curves splits the points into curves along the x axis (one per value of the other parameters).
-func (x *Experiment) curves(run *result.Run) []curveView {
-	nx := len(x.params[0].values)
+func (x *experiment) curves(run *result.Run) []curveView {
+	nx := len(x.Params[0].Values)
 	var cs []curveView
 	for i := 0; i+nx <= len(run.Points); i += nx {
 		pts := run.Points[i : i+nx]
 		var lab []string
-		for k := 1; k < len(x.params); k++ {
-			pt := Point{Names: run.Params, Values: pts[0].Values, labels: x.labels()}
-			lab = append(lab, x.params[k].name+"="+pt.Label(x.params[k].name))
+		for k := 1; k < len(x.Params); k++ {
+			pt := Point{Names: run.Params, Values: pts[0].Values, Labels: x.labels()}
+			lab = append(lab, x.Params[k].Name+"="+pt.Label(x.Params[k].Name))
 		}
 		cs = append(cs, curveView{label: strings.Join(lab, " "), points: pts})
 	}
 	return cs
 }
 
-func (x *Experiment) labels() [][]string {
-	l := make([][]string, len(x.params))
-	for i, p := range x.params {
-		l[i] = p.labels
+func (x *experiment) labels() [][]string {
+	l := make([][]string, len(x.Params))
+	for i, p := range x.Params {
+		l[i] = p.Labels
 	}
 	return l
 }
 
-func (x *Experiment) write(r *result.Run) error {
+func (x *experiment) write(r *result.Run) error {
 	skip, err := x.finishLong(r) // a shard run saves its shard file instead of the outputs
 	if err != nil {
 		return err
@@ -295,14 +314,8 @@ func (x *Experiment) write(r *result.Run) error {
 	if skip {
 		return nil
 	}
-	dir := OutputDir(x.opts.Script)
-	if err := output.Write(dir, r); err != nil {
+	if err := output.Write(output.Dir(x.opts.Script), r); err != nil {
 		return err
 	}
 	return x.writtenLong(r)
-}
-
-// OutputDir is the folder beside a script that holds its outputs: dir/<name>.go → dir/<name>.
-func OutputDir(script string) string {
-	return strings.TrimSuffix(script, filepath.Ext(script))
 }

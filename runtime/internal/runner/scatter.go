@@ -1,4 +1,4 @@
-package sim
+package runner
 
 import (
 	"fmt"
@@ -11,31 +11,31 @@ import (
 // point whose parameters have these values, in sweep order (Scatter(12) on an Eb/N0 sweep;
 // Scatter(12, 1) on a grid): the samples as the last block of the link left them, over the
 // modulator's points.
-func (x *Experiment) Scatter(values ...float64) *Experiment {
+func (x *experiment) Scatter(values ...float64) *experiment {
 	if len(values) == 0 {
-		fail(fmt.Errorf("sim.Scatter: name the point by its swept values"))
+		Fail(fmt.Errorf("sim.Scatter: name the point by its swept values"))
 	}
-	x.scatterAt = append([]float64(nil), values...)
+	x.ScatterAt = append([]float64(nil), values...)
 	return x
 }
 
 // scatter runs frame 0 of the chosen point again, alone, and keeps its samples. The frame's
 // streams are keyed as in the run, so it is the same frame the run counted.
-func (x *Experiment) scatter(run *result.Run, points []Point, seed uint64) error {
-	if x.scatterAt == nil {
+func (x *experiment) scatter(run *result.Run, points []Point, seed uint64) error {
+	if x.ScatterAt == nil {
 		return nil
 	}
 	var pt *Point
 	for i := range points {
-		if matches(points[i].Values, x.scatterAt) {
+		if matches(points[i].Values, x.ScatterAt) {
 			pt = &points[i]
 			break
 		}
 	}
 	if pt == nil {
-		return fmt.Errorf("sim.Scatter: no point of the sweep has the values %v", x.scatterAt)
+		return fmt.Errorf("sim.Scatter: no point of the sweep has the values %v", x.ScatterAt)
 	}
-	l := x.build(*pt)
+	l := x.Build(*pt)
 	var f link.Frame
 	counts := make([]link.Tally, len(l.Taps()))
 	if err := l.Run(&f, seed, pt.Index, 0, counts); err != nil {

@@ -1,4 +1,4 @@
-package sim
+package runner
 
 import (
 	"errors"
@@ -31,9 +31,13 @@ var scriptFile string
 // interpreter reports the script position of the call that failed.
 var hosted bool
 
-// fail stops the script at a mistake. Hosted, it panics so the interpreter names the line;
+// Hosted tells the package that scripts run in the interpreter host: from then on mistakes
+// panic, so the interpreter reports the script line, instead of exiting the process.
+func Hosted() { hosted = true }
+
+// Fail stops the script at a mistake. Hosted, it panics so the interpreter names the line;
 // compiled, it prints "file:line: message" for the script line that led here and exits 1.
-func fail(err error) {
+func Fail(err error) {
 	if hosted {
 		panic(err)
 	}

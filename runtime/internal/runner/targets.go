@@ -1,4 +1,4 @@
-package sim
+package runner
 
 import (
 	"fmt"
@@ -12,11 +12,11 @@ import (
 // findTargets fills run.Targets: per target and curve, the swept value where the tap crosses
 // the target rate (log BER interpolated between the bracketing points, with the interval read
 // off the curves of the points' limits), and the distance from a theory curve when one is named.
-func (x *Experiment) findTargets(run *result.Run) {
-	for _, t := range x.targets {
-		ti := run.TapIndex(t.tap)
+func (x *experiment) findTargets(run *result.Run) {
+	for _, t := range x.Targets {
+		ti := run.TapIndex(t.Tap)
 		if ti < 0 {
-			run.Targets = append(run.Targets, result.Target{Tap: t.tap, Rate: t.rate, Note: "the link has no such tap"})
+			run.Targets = append(run.Targets, result.Target{Tap: t.Tap, Rate: t.Rate, Note: "the link has no such tap"})
 			continue
 		}
 		var first *result.Target // the first curve's crossing: the others are compared with it
@@ -31,29 +31,29 @@ func (x *Experiment) findTargets(run *result.Run) {
 				xs = append(xs, p.Values[0])
 				est = append(est, stats.Estimate{Rate: tp.Rate, Low: tp.Low, High: tp.High})
 			}
-			tr := result.Target{Tap: t.tap, Rate: t.rate, Curve: c.label, Against: t.against}
-			cr, err := stats.AtTarget(xs, est, t.rate)
+			tr := result.Target{Tap: t.Tap, Rate: t.Rate, Curve: c.label, Against: t.Against}
+			cr, err := stats.AtTarget(xs, est, t.Rate)
 			if err != nil {
 				tr.Note = err.Error()
 			} else {
 				tr.Found, tr.X, tr.Low, tr.High = true, cr.X, cr.Low, cr.High
 				tr.Open = openEnds(cr.Low, cr.High)
-				if t.against != "" {
+				if t.Against != "" {
 					ci := -1
 					for i, n := range run.Theory {
-						if n == t.against {
+						if n == t.Against {
 							ci = i
 						}
 					}
 					if ci < 0 {
-						tr.Note = fmt.Sprintf("no theory curve %q", t.against)
+						tr.Note = fmt.Sprintf("no theory curve %q", t.Against)
 					} else {
-						fn := x.theory[ci].fn
+						fn := x.Theory[ci].Fn
 						base := c.points[0]
 						loss, err := stats.Penalty(cr, func(v float64) float64 {
 							vals := append([]float64(nil), base.Values...)
 							vals[0] = v
-							return fn(Point{Names: run.Params, Values: vals, labels: x.labels()})
+							return fn(Point{Names: run.Params, Values: vals, Labels: x.labels()})
 						})
 						if err != nil {
 							tr.Note = err.Error()

@@ -1,8 +1,7 @@
-package sim
+package runner
 
 import (
 	"context"
-	"strings"
 
 	"tally/blocks/stop"
 	"tally/runtime/engine"
@@ -12,11 +11,11 @@ import (
 
 // runEngine is engine.Run with the point's live progress line when the log is a terminal; the
 // line is erased before the point's finished line is printed.
-func (x *Experiment) runEngine(ctx context.Context, pt Point, rules []stop.Rule, s engine.Spec) (engine.Outcome, error) {
+func (x *experiment) runEngine(ctx context.Context, pt Point, rules []stop.Rule, s engine.Spec) (engine.Outcome, error) {
 	o := x.opts
 	if !o.Quiet && isTerminal(o.log()) {
 		line := progress.NewLine(o.log(), progress.Point{Label: pt.text(), Index: pt.Index, Total: x.pointCount(),
-			Rules: rules, Confidence: x.confidence, Method: x.method})
+			Rules: rules, Confidence: x.Confidence, Method: x.Method})
 		defer line.Close()
 		s.OnProgress = line.Update
 		s.ProgressEvery = progressEvery
@@ -33,19 +32,10 @@ var (
 // finishedLine is the log line of a finished point.
 func finishedLine(pt Point, rp result.Point) string { return progress.Finished(pt.text(), rp) }
 
-// text is the point's parameter values as the table shows them: "ebn0_db=4 code=1/2".
-func (p Point) text() string {
-	parts := make([]string, len(p.Names))
-	for i, n := range p.Names {
-		parts[i] = n + "=" + p.Label(n)
-	}
-	return strings.Join(parts, " ")
-}
-
-func (x *Experiment) pointCount() int {
+func (x *experiment) pointCount() int {
 	n := 1
-	for _, p := range x.params {
-		n *= len(p.values)
+	for _, p := range x.Params {
+		n *= len(p.Values)
 	}
 	return n
 }

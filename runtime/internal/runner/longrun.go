@@ -1,4 +1,4 @@
-package sim
+package runner
 
 import (
 	"crypto/sha256"
@@ -14,6 +14,7 @@ import (
 	"tally/blocks/stop"
 	"tally/runtime/engine"
 	"tally/runtime/longrun"
+	"tally/runtime/output"
 	"tally/runtime/result"
 )
 
@@ -34,7 +35,7 @@ const (
 
 // longRun is the long-run state of one experiment while it runs.
 type longRun struct {
-	x     *Experiment
+	x     *experiment
 	set   *longrun.Settings
 	mode  int
 	dir   string // outputs folder
@@ -51,7 +52,7 @@ type longRun struct {
 }
 
 // longFor is the experiment's long-run state, made at its first point; nil without settings.
-func (x *Experiment) longFor(seed uint64) (*longRun, error) {
+func (x *experiment) longFor(seed uint64) (*longRun, error) {
 	o := x.opts
 	if o.Long == nil {
 		return nil, nil
@@ -62,7 +63,7 @@ func (x *Experiment) longFor(seed uint64) (*longRun, error) {
 	sum := sha256.Sum256(o.Source)
 	hash := hex.EncodeToString(sum[:])
 	set := o.Long
-	l := &longRun{x: x, set: set, dir: OutputDir(o.Script), every: set.Interval()}
+	l := &longRun{x: x, set: set, dir: output.Dir(o.Script), every: set.Interval()}
 	var err error
 	switch {
 	case set.Replay != nil:
@@ -73,8 +74,8 @@ func (x *Experiment) longFor(seed uint64) (*longRun, error) {
 			err = fmt.Errorf("merge: the shards were made by another version of %s (SHA-256 %.12s…, the script now %.12s…)", o.Script, m.SHA256, hash)
 		case m.Seed != seed:
 			err = fmt.Errorf("merge: the shards have seed %d, the run seed %d", m.Seed, seed)
-		case m.Name != x.name:
-			err = fmt.Errorf("merge: the shards are of experiment %q, the script runs %q", m.Name, x.name)
+		case m.Name != x.Name:
+			err = fmt.Errorf("merge: the shards are of experiment %q, the script runs %q", m.Name, x.Name)
 		}
 	case set.Shard != nil:
 		l.mode = sharding
@@ -94,7 +95,7 @@ func (x *Experiment) longFor(seed uint64) (*longRun, error) {
 func (l *longRun) openCheckpoint(hash string, seed uint64) error {
 	o := l.x.opts
 	l.path = longrun.CheckpointPath(l.dir)
-	l.ck = &longrun.Checkpoint{Name: l.x.name, Script: o.Script, SHA256: hash, Seed: seed}
+	l.ck = &longrun.Checkpoint{Name: l.x.Name, Script: o.Script, SHA256: hash, Seed: seed}
 	if l.set.Restart {
 		if err := os.Remove(l.path); err != nil && !errors.Is(err, os.ErrNotExist) {
 			return err
@@ -135,8 +136,8 @@ func (l *longRun) openCheckpoint(hash string, seed uint64) error {
 // match refuses saved work of another experiment, script version or seed.
 func (l *longRun) match(what, name, savedHash string, savedSeed uint64, hash string, seed uint64) error {
 	switch {
-	case name != l.x.name:
-		return fmt.Errorf("%s is of experiment %q, the script runs %q; run with -restart to start afresh", what, name, l.x.name)
+	case name != l.x.Name:
+		return fmt.Errorf("%s is of experiment %q, the script runs %q; run with -restart to start afresh", what, name, l.x.Name)
 	case savedHash != hash:
 		return fmt.Errorf("%s was made by another version of the script (SHA-256 %.12s…, the script now %.12s…); run with -restart to start afresh", what, savedHash, hash)
 	case savedSeed != seed:
@@ -149,7 +150,7 @@ func (l *longRun) openShard(hash string, seed uint64) error {
 	o := l.x.opts
 	part := *l.set.Shard
 	l.path = longrun.ShardPath(l.dir, part)
-	l.sh = &longrun.ShardFile{Name: l.x.name, Script: o.Script, SHA256: hash, Seed: seed, Index: part.Index, Of: part.Of}
+	l.sh = &longrun.ShardFile{Name: l.x.Name, Script: o.Script, SHA256: hash, Seed: seed, Index: part.Index, Of: part.Of}
 	if l.set.Restart {
 		if err := os.Remove(l.path); err != nil && !errors.Is(err, os.ErrNotExist) {
 			return err
@@ -194,7 +195,7 @@ func (l *longRun) openShard(hash string, seed uint64) error {
 
 // runLong runs a point's engine spec with the long-run settings: from its saved state, saving
 // as it commits, as a shard, or replayed.
-func (x *Experiment) runLong(pt Point, spec engine.Spec, run runner) (engine.Outcome, error) {
+func (x *experiment) runLong(pt Point, spec engine.Spec, run runner) (engine.Outcome, error) {
 	l, err := x.longFor(spec.Seed)
 	if err != nil {
 		return engine.Outcome{}, err
@@ -344,7 +345,7 @@ func (l *longRun) save(kind string, v any) error {
 
 // finishLong ends the long run before the outputs are written. A shard run saves its shard
 // file instead of them (skip); a merge whose shards fell short fails with what is missing.
-func (x *Experiment) finishLong(r *result.Run) (skip bool, err error) {
+func (x *experiment) finishLong(r *result.Run) (skip bool, err error) {
 	l := x.opts.long
 	if l == nil || l.x != x {
 		return false, nil
@@ -367,7 +368,7 @@ func (x *Experiment) finishLong(r *result.Run) (skip bool, err error) {
 
 // writtenLong follows a successful write of the outputs: a complete run's checkpoint is done
 // with.
-func (x *Experiment) writtenLong(r *result.Run) error {
+func (x *experiment) writtenLong(r *result.Run) error {
 	l := x.opts.long
 	if l == nil || l.x != x || l.mode != checkpointing || r.Interrupted {
 		return nil

@@ -1,4 +1,4 @@
-package sim
+package runner
 
 import (
 	"fmt"
@@ -13,27 +13,27 @@ import (
 // after its first point shown below a floor BER, stop.Budget skips points predicted to need
 // more bits than a cap. Skipped points stay in the table with stop "skipped" and the reason in
 // run.json.
-func (x *Experiment) StopSweep(rules ...stop.SweepRule) *Experiment {
+func (x *experiment) StopSweep(rules ...stop.SweepRule) *experiment {
 	for _, r := range rules {
 		if r == nil {
-			fail(fmt.Errorf("sim.StopSweep: a rule is nil"))
+			Fail(fmt.Errorf("sim.StopSweep: a rule is nil"))
 		}
 		if c, ok := r.(link.Checked); ok {
 			if err := c.Err(); err != nil {
-				fail(err)
+				Fail(err)
 			}
 		}
 	}
-	x.sweepRules = append(x.sweepRules, rules...)
+	x.SweepRules = append(x.SweepRules, rules...)
 	return x
 }
 
 // skip asks the sweep rules about pt, given the finished points of its curve.
-func (x *Experiment) skip(run *result.Run, pt Point) (bool, string) {
-	if len(x.sweepRules) == 0 {
+func (x *experiment) skip(run *result.Run, pt Point) (bool, string) {
+	if len(x.SweepRules) == 0 {
 		return false, ""
 	}
-	nx := len(x.params[0].values)
+	nx := len(x.Params[0].Values)
 	first := pt.Index - pt.Index%nx // first point of pt's curve
 	var done []stop.Outcome
 	for _, p := range run.Points[first:pt.Index] {
@@ -44,7 +44,7 @@ func (x *Experiment) skip(run *result.Run, pt Point) (bool, string) {
 		done = append(done, stop.Outcome{X: p.Values[0], Tally: link.Tally{Trials: t.Trials, Errors: t.Errors},
 			Estimate: stats.Estimate{Rate: t.Rate, Low: t.Low, High: t.High, Method: t.Method}})
 	}
-	for _, r := range x.sweepRules {
+	for _, r := range x.SweepRules {
 		if s, why := r.Skip(done, pt.Values[0]); s {
 			return true, why
 		}
@@ -54,13 +54,13 @@ func (x *Experiment) skip(run *result.Run, pt Point) (bool, string) {
 
 // skipped is the table row of a point the sweep rules passed over: no counts, the widest
 // interval, and the theory values.
-func (x *Experiment) skipped(run *result.Run, pt Point, why string) result.Point {
+func (x *experiment) skipped(run *result.Run, pt Point, why string) result.Point {
 	rp := result.Point{Values: pt.Values, Stop: "skipped", Note: why}
 	for _, name := range run.Taps {
-		rp.Taps = append(rp.Taps, result.Tap{Name: name, High: 1, Method: x.method})
+		rp.Taps = append(rp.Taps, result.Tap{Name: name, High: 1, Method: x.Method})
 	}
-	for _, c := range x.theory {
-		rp.Theory = append(rp.Theory, c.fn(pt))
+	for _, c := range x.Theory {
+		rp.Theory = append(rp.Theory, c.Fn(pt))
 	}
 	return rp
 }

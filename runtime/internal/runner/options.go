@@ -1,4 +1,4 @@
-package sim
+package runner
 
 import (
 	"context"
@@ -16,7 +16,8 @@ import (
 // DefaultSeed is the seed of a run that names none; it is recorded in every run record.
 const DefaultSeed = 1
 
-// Options are what the command line or the interpreter host tells a run.
+// Options are what the command line or the interpreter host tells a run: how it runs and where
+// its outputs go. No script can name them.
 type Options struct {
 	Context context.Context
 	Script  string // path of the script file
@@ -36,20 +37,18 @@ type Options struct {
 	Long *longrun.Settings
 
 	long *longRun // the long-run state of the experiment running
+	ran  string   // the name of the experiment this script has run; a script runs one
 }
 
-// Hosted tells the package that scripts run in the interpreter host: from then on mistakes
-// panic, so the interpreter reports the script line, instead of exiting the process.
-func Hosted() { hosted = true }
+// compiled are the options of a compiled run, read from its command line once.
+var compiled *Options
 
-// NewWith is New with options given by the host rather than read from the command line. The
-// host binds each script's sim.New to it.
-func NewWith(name string, o *Options) *Experiment {
-	return &Experiment{name: name, confidence: 0.95, method: "clopper-pearson", seed: DefaultSeed, opts: o}
-}
-
-// commandLine reads the options of a compiled run (go run file.go [flags]).
-func commandLine() *Options {
+// CommandLine reads the options of a compiled run (go run file.go [flags]) from its command
+// line, once; it must be called by sim.New, called by the script.
+func CommandLine() *Options {
+	if compiled != nil {
+		return compiled
+	}
 	o := &Options{Mode: "compiled", Seed: DefaultSeed}
 	fs := flag.NewFlagSet("experiment", flag.ContinueOnError)
 	fs.IntVar(&o.Workers, "workers", 0, "parallel workers (0: all cores)")
@@ -79,6 +78,7 @@ func commandLine() *Options {
 	}
 	ctx, _ := signal.NotifyContext(context.Background(), os.Interrupt)
 	o.Context = ctx
+	compiled = o
 	return o
 }
 

@@ -1,0 +1,53 @@
+package runner
+
+import (
+	"tally/blocks/link"
+	"tally/blocks/stop"
+)
+
+// Spec is an experiment as a script declared it through package sim: what to sweep, the link
+// of a point, the rules, the curves and the targets. It says nothing of how or where it runs;
+// Run and Execute take that from Options.
+type Spec struct {
+	Name       string
+	Params     []Param
+	Build      func(p Point) *link.Link
+	Rules      []stop.Rule
+	SweepRules []stop.SweepRule
+	ScatterAt  []float64
+	Theory     []Curve
+	Targets    []Target
+	Confidence float64
+	Method     string
+	Seed       uint64
+}
+
+// NewSpec is a spec with the defaults: 95 % Clopper–Pearson intervals, DefaultSeed.
+func NewSpec(name string) Spec {
+	return Spec{Name: name, Confidence: 0.95, Method: "clopper-pearson", Seed: DefaultSeed}
+}
+
+// Param is a swept parameter: its values, and for SweepLabels the names of its choices.
+type Param struct {
+	Name   string
+	Values []float64
+	Labels []string
+}
+
+// Curve is a theory curve.
+type Curve struct {
+	Name string
+	Fn   func(p Point) float64
+}
+
+// Target asks where a tap crosses a rate, compared with a theory curve when Against is set.
+type Target struct {
+	Tap     string
+	Rate    float64
+	Against string
+}
+
+// NewExperiment makes a script's experiment bound to the options o. Package sim sets it, since
+// sim alone can make a sim.Experiment; the host binds each script's sim.New to it, so a script
+// never sees, and cannot choose, how or where it runs.
+var NewExperiment func(name string, o *Options) any
