@@ -154,6 +154,17 @@ func Run(ctx context.Context, s Spec) (Outcome, error) {
 			}
 		}
 	}
+	// A second instance, for the check that link instances share nothing (and the second
+	// worker's link).
+	var second *link.Link
+	if s.Replay == nil {
+		if second, err = s.Build(); err != nil {
+			return Outcome{}, err
+		}
+		if err := checkInstances(s, first, second); err != nil {
+			return Outcome{}, err
+		}
+	}
 	start := time.Now()
 	prog := &stop.Progress{Taps: taps, Counts: make([]link.Tally, len(taps))}
 	var before time.Duration
@@ -248,8 +259,8 @@ func Run(ctx context.Context, s Spec) (Outcome, error) {
 	}
 
 	links := make([]*link.Link, workers)
-	links[0] = first
-	for w := 1; w < workers; w++ {
+	links[0], links[1] = first, second
+	for w := 2; w < workers; w++ {
 		if links[w], err = s.Build(); err != nil {
 			return Outcome{}, err
 		}

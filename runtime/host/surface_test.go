@@ -319,3 +319,27 @@ func TestSecondExperimentRefused(t *testing.T) {
 		t.Error("the first experiment's table is missing")
 	}
 }
+
+// A script whose custom block keeps its buffer outside the Link function (shared by every
+// worker's link) is refused, interpreted, with one worker too: the message names the block and
+// says where buffers belong, and no outputs are written.
+func TestLeakingScriptBlockRefused(t *testing.T) {
+	p := scriptIn(t, "custom.go")
+	src, _ := os.ReadFile(p)
+	s := strings.Replace(string(src), "\tx.Link(func(p sim.Point) *link.Link {\n\t\tvar sym []complex128\n\t\tvar hard []byte\n",
+		"\tvar hard []byte\n\tx.Link(func(p sim.Point) *link.Link {\n\t\tvar sym []complex128\n", 1)
+	if s == string(src) {
+		t.Fatal("the test script changed: cannot move its buffer out of Link")
+	}
+	if err := os.WriteFile(p, []byte(s), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	err := Run(context.Background(), p, quiet(1))
+	var se *ScriptError
+	if !errors.As(err, &se) || !strings.Contains(se.Msg, `custom block "slice"`) || !strings.Contains(se.Msg, "inside the Link function") {
+		t.Fatalf("leaking block: %v; want a script error naming \"slice\"", err)
+	}
+	if _, err := os.Stat(strings.TrimSuffix(p, ".go")); err == nil {
+		t.Error("a refused run wrote outputs")
+	}
+}
