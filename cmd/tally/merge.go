@@ -2,16 +2,12 @@ package main
 
 import (
 	"context"
-	"crypto/sha256"
-	"encoding/hex"
 	"errors"
 	"flag"
 	"fmt"
 	"io"
 	"os"
 	"os/signal"
-	"path/filepath"
-	"sort"
 
 	"tally/runtime/host"
 	"tally/runtime/longrun"
@@ -51,24 +47,12 @@ func mergeCmd(args []string, stdout, stderr io.Writer) int {
 		fs.Usage()
 		return 2
 	}
-	paths, err := shardFiles(fs.Args())
+	m, err := longrun.Gather(fs.Args())
 	if err != nil {
 		fmt.Fprintln(stderr, "tally merge:", err)
 		return 1
 	}
-	files := make([]*longrun.ShardFile, len(paths))
-	for i, p := range paths {
-		if files[i], err = longrun.LoadShard(p); err != nil {
-			fmt.Fprintln(stderr, "tally merge:", err)
-			return 1
-		}
-	}
-	m, err := longrun.Merge(paths, files)
-	if err != nil {
-		fmt.Fprintln(stderr, "tally merge:", err)
-		return 1
-	}
-	path, err := findScript(*script, m)
+	path, err := longrun.FindScript(*script, m)
 	if err != nil {
 		fmt.Fprintln(stderr, "tally merge:", err)
 		return 1
@@ -81,14 +65,8 @@ func mergeCmd(args []string, stdout, stderr io.Writer) int {
 	dir := output.Dir(path)
 	if set.Short != nil {
 		fmt.Fprintln(stderr, "tally merge:", set.Short)
-		plan := &longrun.Plan{SHA256: m.SHA256, Seed: m.Seed, Of: m.Of, Points: set.Short.Points}
-		for i, p := range plan.Points {
-			if p.Need == 0 && p.Covered > 0 {
-				plan.Points[i].Need = 2 * p.Covered // no estimate: double
-			}
-		}
-		pp := longrun.PlanPath(dir)
-		if err := longrun.Save(pp, longrun.KindPlan, plan); err != nil {
+		pp, err := longrun.SavePlan(dir, m, set.Short)
+		if err != nil {
 			fmt.Fprintln(stderr, "tally merge:", err)
 			return 1
 		}
@@ -99,69 +77,11 @@ func mergeCmd(args []string, stdout, stderr io.Writer) int {
 	if err != nil {
 		return exitCode(err, stderr)
 	}
-	if err := os.Remove(longrun.PlanPath(dir)); err != nil && !errors.Is(err, os.ErrNotExist) {
+	if err := longrun.RemovePlan(dir); err != nil {
 		fmt.Fprintln(stderr, "tally merge:", err)
 	}
 	if !*quiet {
 		fmt.Fprintf(stderr, "merged %d shards into %s\n", m.Of, dir)
 	}
 	return 0
-}
-
-// shardFiles lists the shard files among args: files as given, folders by their shard files
-// (or those of their shards/ subfolder).
-func shardFiles(args []string) ([]string, error) {
-	var out []string
-	for _, a := range args {
-		st, err := os.Stat(a)
-		if err != nil {
-			return nil, err
-		}
-		if !st.IsDir() {
-			out = append(out, a)
-			continue
-		}
-		found, _ := filepath.Glob(filepath.Join(a, "shard-*-of-*.tally"))
-		if len(found) == 0 {
-			found, _ = filepath.Glob(filepath.Join(longrun.ShardDir(a), "shard-*-of-*.tally"))
-		}
-		if len(found) == 0 {
-			return nil, fmt.Errorf("no shard files (shard-I-of-N.tally) in %s", a)
-		}
-		sort.Strings(found)
-		out = append(out, found...)
-	}
-	return out, nil
-}
-
-// findScript is the script to replay the shards with: the one given, else the path the shards
-// were run with, else the script beside their outputs folder. Its hash must be theirs.
-func findScript(given string, m *longrun.Merged) (string, error) {
-	candidates := []string{given}
-	if given == "" {
-		// dir/<name>/shards/shard-i-of-N.tally belongs to dir/<name>.go.
-		beside := filepath.Dir(filepath.Dir(m.Paths[0])) + filepath.Ext(m.Script)
-		candidates = []string{m.Script, beside}
-	}
-	var changed string
-	for _, c := range candidates {
-		src, err := os.ReadFile(c)
-		if err != nil {
-			continue
-		}
-		sum := sha256.Sum256(src)
-		if hex.EncodeToString(sum[:]) == m.SHA256 {
-			return c, nil
-		}
-		if changed == "" {
-			changed = c
-		}
-	}
-	if changed != "" {
-		return "", fmt.Errorf("%s is not the script the shards ran (its SHA-256 differs from %.12s…): it changed since, or give the right one with -script", changed, m.SHA256)
-	}
-	if given != "" {
-		return "", fmt.Errorf("cannot read the script %s", given)
-	}
-	return "", fmt.Errorf("cannot find the script the shards ran (%s); give it with -script FILE.go", m.Script)
 }

@@ -10,10 +10,8 @@ package engine
 
 import (
 	"context"
-	"fmt"
 	"math"
 	"runtime"
-	"sync"
 	"time"
 
 	"tally/blocks/link"
@@ -42,18 +40,13 @@ type Spec struct {
 	// Replay has no frame f the point ends with Stop == Short. Build is called once, for the
 	// taps.
 	Replay func(frame int64) ([]link.Tally, bool)
-	// OnCommit, if set, is called by the committing goroutine after each frame commit with the
-	// frame index and that frame's counts (not the running sum). It must be quick.
-	OnCommit func(frame int64, counts []link.Tally)
-	// OnTaps, if set, is told the link's tap names once the first link is built, before any
-	// commit.
-	OnTaps func(taps []string)
+	// Observers are told of the point's progress: its taps, each commit in frame order, the
+	// prefix at most every ProgressEvery, and its outcome (see Observer).
+	Observers     []Observer
+	ProgressEvery time.Duration
 	// Where, if set, is called when a block panics, from the panicking goroutine, to name the
 	// script position reached (the host's marker, or the compiled stack).
 	Where func() string
-	// OnProgress, if set, is called at most every ProgressEvery with the prefix state.
-	OnProgress    func(p *stop.Progress)
-	ProgressEvery time.Duration
 }
 
 // Shard is a deterministic share of a point's frames: frame f belongs to shard f mod Of.
@@ -123,278 +116,70 @@ const Interrupted = "interrupted"
 // Short is the stop reason of a replayed point whose frames ran out before a rule was met.
 const Short = "short"
 
-type done struct {
-	index  int64
-	counts []link.Tally
-	err    error
-}
-
 // Run computes the point until a rule is met or ctx ends. A block error ends the run with an
 // error naming the point, frame and block.
+//
+// It builds the links (one per worker) and checks them (checkInstances), judges the rules on
+// the starting prefix, then computes frames on one worker (serial), on several (parallel), or
+// takes them from Spec.Replay, committing each in frame order (pointRun.commit).
 func Run(ctx context.Context, s Spec) (Outcome, error) {
 	workers := s.Workers
 	if workers <= 0 {
 		workers = runtime.NumCPU()
 	}
-	first, err := s.Build()
+	first, second, err := buildLinks(s)
 	if err != nil {
 		return Outcome{}, err
 	}
-	if err := first.Check(); err != nil {
+	r, err := newPointRun(s, first.Taps())
+	if err != nil {
 		return Outcome{}, err
 	}
-	taps := first.Taps()
-	if s.OnTaps != nil {
-		s.OnTaps(taps)
+	r.obs.Started(r.taps)
+	if !r.judge() {
+		switch {
+		case s.Replay != nil:
+			err = r.replay(ctx)
+		case workers == 1:
+			err = r.serial(ctx, first)
+		default:
+			err = r.parallel(ctx, first, second, workers)
+		}
+		if err != nil {
+			return Outcome{}, err
+		}
+	}
+	out := r.finish()
+	r.obs.Finished(out)
+	return out, nil
+}
+
+// buildLinks builds the first link and checks it and the rules; unless replaying, it builds a
+// second and checks that the two share nothing (checkInstances).
+func buildLinks(s Spec) (first, second *link.Link, err error) {
+	if first, err = s.Build(); err != nil {
+		return nil, nil, err
+	}
+	if err := first.Check(); err != nil {
+		return nil, nil, err
 	}
 	for _, r := range s.Rules {
 		if c, ok := r.(link.Checked); ok {
 			if err := c.Err(); err != nil {
-				return Outcome{}, err
+				return nil, nil, err
 			}
 		}
-	}
-	// A second instance, for the check that link instances share nothing (and the second
-	// worker's link).
-	var second *link.Link
-	if s.Replay == nil {
-		if second, err = s.Build(); err != nil {
-			return Outcome{}, err
-		}
-		if err := checkInstances(s, first, second); err != nil {
-			return Outcome{}, err
-		}
-	}
-	start := time.Now()
-	prog := &stop.Progress{Taps: taps, Counts: make([]link.Tally, len(taps))}
-	var before time.Duration
-	if s.Start != nil {
-		if len(s.Start.Counts) != len(taps) {
-			return Outcome{}, fmt.Errorf("point %d: the saved state has %d taps, the link %d", s.Point+1, len(s.Start.Counts), len(taps))
-		}
-		prog.Frames = s.Start.Frames
-		copy(prog.Counts, s.Start.Counts)
-		before = s.Start.Elapsed
-	}
-	out := Outcome{Taps: taps}
-
-	// check judges the rules on the committed prefix (a shard: on its estimate of the prefix).
-	// A replay sees no wall time: a time rule cannot be replayed, only honoured live.
-	judged := prog
-	var est stop.Progress
-	if s.Shard != nil {
-		judged = &est
-	}
-	check := func() bool {
-		if s.Replay == nil {
-			prog.Elapsed = before + time.Since(start)
-		}
-		if s.Shard != nil {
-			s.Shard.Estimate(prog, &est)
-		}
-		for _, r := range s.Rules {
-			if r.Met(judged) {
-				out.Stop, out.Rule = r.Name(), r
-				if s.Shard != nil && prog.Frames < s.Shard.Min {
-					out.Stop, out.Rule = "", nil
-					return false
-				}
-				return true
-			}
-		}
-		return false
-	}
-	if check() {
-		return finish(out, prog, start, before), nil
 	}
 	if s.Replay != nil {
-		return replay(ctx, s, &out, prog, check, start, before)
+		return first, nil, nil
 	}
-
-	frameOf := func(n int64) int64 { return n } // n-th frame this run computes → frame index
-	if s.Shard != nil {
-		frameOf = func(n int64) int64 { return n*int64(s.Shard.Of) + int64(s.Shard.Index) }
+	if second, err = s.Build(); err != nil {
+		return nil, nil, err
 	}
-	// commit adds frame idx's counts to the prefix and reports whether a rule is now met.
-	commit := func(idx int64, counts []link.Tally) bool {
-		for i := range counts {
-			prog.Counts[i].Add(counts[i])
-		}
-		prog.Frames++
-		out.Computed++
-		if s.OnCommit != nil {
-			s.OnCommit(idx, counts)
-		}
-		return check()
+	if err := checkInstances(s, first, second); err != nil {
+		return nil, nil, err
 	}
-	lastProgress := time.Now()
-	progress := func() {
-		if s.OnProgress != nil && time.Since(lastProgress) >= s.ProgressEvery {
-			lastProgress = time.Now()
-			prog.Elapsed = before + time.Since(start)
-			s.OnProgress(prog)
-		}
-	}
-
-	// One worker computes and commits in this goroutine: no hand-over between threads.
-	if workers == 1 {
-		var f link.Frame
-		c := make([]link.Tally, len(taps))
-		for {
-			if ctx.Err() != nil {
-				out.Stop = Interrupted
-				break
-			}
-			idx := frameOf(prog.Frames)
-			clear(c)
-			if err := runFrame(first, &f, s, int(idx), c); err != nil {
-				return Outcome{}, fmt.Errorf("point %d, frame %d: %w", s.Point+1, idx, err)
-			}
-			if commit(idx, c) {
-				break
-			}
-			progress()
-		}
-		return finish(out, prog, start, before), nil
-	}
-
-	links := make([]*link.Link, workers)
-	links[0], links[1] = first, second
-	for w := 2; w < workers; w++ {
-		if links[w], err = s.Build(); err != nil {
-			return Outcome{}, err
-		}
-	}
-
-	// The committer hands out frame indices, at most window ahead of the committed prefix, so
-	// memory stays flat however unevenly frames finish.
-	window := int64(4 * workers)
-	jobs := make(chan int64, window)
-	results := make(chan done, window)
-	pctx, cancel := context.WithCancel(ctx)
-	defer cancel()
-
-	// In shard mode prog.Frames counts this shard's frames.
-	next := prog.Frames
-	for ; next < prog.Frames+window; next++ {
-		jobs <- frameOf(next)
-	}
-
-	var wg sync.WaitGroup
-	for w := 0; w < workers; w++ {
-		wg.Add(1)
-		go func(l *link.Link) {
-			defer wg.Done()
-			var f link.Frame
-			for idx := range jobs {
-				if pctx.Err() != nil {
-					continue
-				}
-				c := make([]link.Tally, len(taps))
-				err := runFrame(l, &f, s, int(idx), c)
-				results <- done{index: idx, counts: c, err: err}
-			}
-		}(links[w])
-	}
-
-	pending := map[int64]done{}
-	var runErr error
-loop:
-	for {
-		select {
-		case <-ctx.Done():
-			out.Stop = Interrupted
-			break loop
-		case d := <-results:
-			if d.err != nil {
-				runErr = fmt.Errorf("point %d, frame %d: %w", s.Point+1, d.index, d.err)
-				break loop
-			}
-			pending[d.index] = d
-			for {
-				want := frameOf(prog.Frames)
-				d, ok := pending[want]
-				if !ok {
-					break
-				}
-				delete(pending, want)
-				if commit(want, d.counts) {
-					break loop
-				}
-				jobs <- frameOf(next)
-				next++
-			}
-			progress()
-		}
-	}
-	cancel()
-	close(jobs)
-	go func() { wg.Wait(); close(results) }()
-	for range results {
-	}
-	if runErr != nil {
-		return Outcome{}, runErr
-	}
-	return finish(out, prog, start, before), nil
-}
-
-// replay commits Spec.Replay's frames in order until a rule is met or they run out.
-func replay(ctx context.Context, s Spec, out *Outcome, prog *stop.Progress, check func() bool, start time.Time, before time.Duration) (Outcome, error) {
-	for {
-		if ctx.Err() != nil {
-			out.Stop = Interrupted
-			break
-		}
-		f := prog.Frames
-		c, ok := s.Replay(f)
-		if !ok {
-			out.Stop = Short
-			break
-		}
-		if len(c) != len(prog.Counts) {
-			return Outcome{}, fmt.Errorf("point %d, frame %d: %d taps saved, the link has %d", s.Point+1, f, len(c), len(prog.Counts))
-		}
-		for i := range c {
-			prog.Counts[i].Add(c[i])
-		}
-		prog.Frames++
-		if s.OnCommit != nil {
-			s.OnCommit(f, c)
-		}
-		if check() {
-			break
-		}
-	}
-	return finish(*out, prog, start, before), nil
-}
-
-// runFrame runs one frame, turning a panic in a block (a script's own, say) into an error that
-// names where it happened when Spec.Where can tell.
-func runFrame(l *link.Link, f *link.Frame, s Spec, idx int, c []link.Tally) (err error) {
-	defer func() {
-		if v := recover(); v != nil {
-			err = &PanicError{Value: v}
-			if s.Where != nil {
-				err.(*PanicError).Where = s.Where()
-			}
-		}
-	}()
-	return l.Run(f, s.Seed, s.Point, idx, c)
-}
-
-// PanicError is a panic inside a block while it processed a frame.
-type PanicError struct {
-	Value any
-	Where string // the script position, when known
-}
-
-func (e *PanicError) Error() string { return fmt.Sprintf("panic: %v", e.Value) }
-
-func finish(out Outcome, prog *stop.Progress, start time.Time, before time.Duration) Outcome {
-	out.Counts = append([]link.Tally(nil), prog.Counts...)
-	out.Frames = prog.Frames
-	out.Elapsed = before + time.Since(start)
-	return out
+	return first, second, nil
 }
 
 // Extrapolate guesses how many frames in all a point needs for a rule to be met, from a

@@ -200,12 +200,12 @@ func TestShardFrames(t *testing.T) {
 	for i := 0; i < of; i++ {
 		var got []int64
 		spec := Spec{Point: testPoint, Build: build, Rules: rules, Seed: testSeed, Workers: 4, Shard: &Shard{Index: i, Of: of}}
-		spec.OnCommit = func(f int64, c []link.Tally) {
+		spec.Observers = []Observer{onCommit(func(f int64, c []link.Tally) {
 			if f < int64(len(frames)) && !equal(c, frames[f]) {
 				t.Errorf("shard %d frame %d: counts %v, single run %v", i, f, c, frames[f])
 			}
 			got = append(got, f)
-		}
+		})}
 		out, err := Run(context.Background(), spec)
 		if err != nil {
 			t.Fatal(err)
@@ -305,3 +305,11 @@ func TestEstimateErrsLow(t *testing.T) {
 		}
 	}
 }
+
+// onCommit is an Observer of commits only.
+type onCommit func(frame int64, counts []link.Tally)
+
+func (onCommit) Started([]string)                    {}
+func (o onCommit) Committed(f int64, c []link.Tally) { o(f, c) }
+func (onCommit) Progress(*stop.Progress)             {}
+func (onCommit) Finished(Outcome)                    {}

@@ -70,7 +70,7 @@ func width(w io.Writer) int {
 	return 80
 }
 
-// Update redraws the line from the committed prefix (engine.Spec.OnProgress).
+// Update redraws the line from the committed prefix (the Progress of an engine.Observer).
 func (l *Line) Update(pr *stop.Progress) {
 	s := Live(l.p, pr)
 	if n := l.width - 1; utf8.RuneCountInString(s) > n {

@@ -36,8 +36,7 @@ type Options struct {
 	// Long are the checkpoint, resume, shard and merge settings; nil keeps no checkpoint.
 	Long *longrun.Settings
 
-	long *longRun // the long-run state of the experiment running
-	ran  string   // the name of the experiment this script has run; a script runs one
+	ran string // the name of the experiment this script has run; a script runs one
 }
 
 // compiled are the options of a compiled run, read from its command line once.

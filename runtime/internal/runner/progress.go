@@ -2,6 +2,7 @@ package runner
 
 import (
 	"context"
+	"slices"
 
 	"tally/blocks/stop"
 	"tally/runtime/engine"
@@ -17,7 +18,7 @@ func (x *experiment) runEngine(ctx context.Context, pt Point, rules []stop.Rule,
 		line := progress.NewLine(o.log(), progress.Point{Label: pt.text(), Index: pt.Index, Total: x.pointCount(),
 			Rules: rules, Confidence: x.Confidence, Method: x.Method})
 		defer line.Close()
-		s.OnProgress = line.Update
+		s.Observers = append(slices.Clip(s.Observers), progressObserver{line: line})
 		s.ProgressEvery = progressEvery
 	}
 	return engine.Run(ctx, s)
@@ -39,3 +40,11 @@ func (x *experiment) pointCount() int {
 	}
 	return n
 }
+
+// progressObserver draws the live line from the engine's prefix.
+type progressObserver struct {
+	engine.Ignore
+	line *progress.Line
+}
+
+func (p progressObserver) Progress(prefix *stop.Progress) { p.line.Update(prefix) }

@@ -18,6 +18,7 @@ import (
 	"tally/blocks/stats"
 	"tally/blocks/stop"
 	"tally/runtime/engine"
+	"tally/runtime/longrun"
 	"tally/runtime/output"
 	"tally/runtime/result"
 )
@@ -37,6 +38,7 @@ var ErrInterrupted = errors.New("run interrupted")
 type experiment struct {
 	*Spec
 	opts *Options
+	long *longrun.Session // checkpoint, shard or replay (nil: none)
 }
 
 // Run runs a script's experiment (sim.Experiment.Run): every point, then table.csv, run.json,
@@ -113,6 +115,12 @@ func (x *experiment) execute() (*result.Run, error) {
 		rules = []stop.Rule{stop.Errors(100), stop.Bits(1e9)}
 	}
 	sum := sha256.Sum256(o.Source)
+	var err error
+	x.long, err = longrun.Open(o.Long, longrun.Job{Name: x.Name, Script: o.Script, SHA256: hex.EncodeToString(sum[:]),
+		Seed: seed, Dir: output.Dir(o.Script), Logf: o.logf})
+	if err != nil {
+		return nil, err
+	}
 	run := &result.Run{
 		Name: x.Name, Script: filepath.Base(o.Script), ScriptSHA256: hex.EncodeToString(sum[:]),
 		Tool: Version, GoVersion: goruntime.Version(), Mode: o.Mode, Seed: seed, Workers: workers,
@@ -178,8 +186,9 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		where = func() string { return scriptPos(callers(5)) }
 	}
 	spec := engine.Spec{Point: pt.Index, Build: build, Rules: rules, Seed: seed, Workers: workers, Where: where}
-	// runLong (longrun.go) adds the checkpoint, shard or replay around the engine run.
-	out, err := x.runLong(pt, spec, func(s engine.Spec) (engine.Outcome, error) { return x.runEngine(ctx, pt, rules, s) })
+	// The long-run session adds the checkpoint, shard or replay around the engine run.
+	lp := longrun.Point{Index: pt.Index, Values: pt.Values, Label: pt.text()}
+	out, err := x.long.Run(lp, spec, func(s engine.Spec) (engine.Outcome, error) { return x.runEngine(ctx, pt, rules, s) })
 	if err != nil {
 		return rp, err
 	}
@@ -302,7 +311,7 @@ func (x *experiment) labels() [][]string {
 }
 
 func (x *experiment) write(r *result.Run) error {
-	skip, err := x.finishLong(r) // a shard run saves its shard file instead of the outputs
+	skip, err := x.long.Finish() // a shard run saves its shard file instead of the outputs
 	if err != nil {
 		return err
 	}
@@ -317,5 +326,5 @@ func (x *experiment) write(r *result.Run) error {
 	if err := output.Write(output.Dir(x.opts.Script), r); err != nil {
 		return err
 	}
-	return x.writtenLong(r)
+	return x.long.Written(r.Interrupted)
 }
