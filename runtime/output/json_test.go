@@ -79,6 +79,13 @@ func TestJSONNonFiniteIsNull(t *testing.T) {
 	if err := json.Unmarshal(b, &back); err != nil {
 		t.Errorf("run.json does not parse: %v", err)
 	}
+	var read result.Run
+	if err := json.Unmarshal(b, &read); err != nil {
+		t.Fatal(err)
+	}
+	if tr := read.Targets[0]; !math.IsInf(tr.Low, -1) || !math.IsInf(tr.High, 1) || tr.X != 9.9 || tr.Open != "open above" {
+		t.Errorf("run.json read back: target %+v, want the open ends as ∓Inf", tr)
+	}
 	if s := string(Summary(r, nil)); !strings.Contains(s, "interval [open, open]") || !strings.Contains(s, "(open above)") {
 		t.Errorf("README.md does not say the interval is open:\n%s", s)
 	}

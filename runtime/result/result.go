@@ -3,6 +3,8 @@
 package result
 
 import (
+	"encoding/json"
+	"math"
 	"strconv"
 	"time"
 )
@@ -109,4 +111,30 @@ func (r *Run) TapIndex(name string) int {
 		}
 	}
 	return -1
+}
+
+// UnmarshalJSON reads a target of run.json, where an open end of a crossing's interval is
+// null: it comes back as −Inf (Low) or +Inf (High), as the run had it.
+func (t *Target) UnmarshalJSON(b []byte) error {
+	type plain Target
+	var v struct {
+		plain
+		Low  *float64 `json:"x_low"`
+		High *float64 `json:"x_high"`
+	}
+	if err := json.Unmarshal(b, &v); err != nil {
+		return err
+	}
+	*t = Target(v.plain)
+	t.Low, t.High = math.Inf(-1), math.Inf(1)
+	if v.Low != nil {
+		t.Low = *v.Low
+	}
+	if v.High != nil {
+		t.High = *v.High
+	}
+	if !t.Found && v.Low == nil && v.High == nil {
+		t.Low, t.High = 0, 0
+	}
+	return nil
 }
