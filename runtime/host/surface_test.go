@@ -343,3 +343,21 @@ func TestLeakingScriptBlockRefused(t *testing.T) {
 		t.Error("a refused run wrote outputs")
 	}
 }
+
+// The packages behind the surface cannot be imported, sandboxed or trusted.
+func TestInternalPackagesRefused(t *testing.T) {
+	p := filepath.Join(t.TempDir(), "inside.go")
+	src := "//go:build ignore\n\npackage main\n\nimport \"tally/runtime/internal/runner\"\n\nfunc main() { runner.Hosted() }\n"
+	if err := os.WriteFile(p, []byte(src), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, trust := range []bool{false, true} {
+		cfg := quiet(1)
+		cfg.Trust = trust
+		err := Run(context.Background(), p, cfg)
+		var se *ScriptError
+		if !errors.As(err, &se) || !strings.HasPrefix(se.Pos, p+":5:") || !strings.Contains(se.Msg, "not one scripts can use") {
+			t.Errorf("trust %v: %v, want the import refused at line 5", trust, err)
+		}
+	}
+}

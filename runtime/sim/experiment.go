@@ -89,7 +89,9 @@ func (x *Experiment) checkName(name string) {
 }
 
 // Link sets the function that builds the link for a point. It is called once per worker and
-// point, since blocks keep buffers; it must build the same link every time for the same point.
+// point (and twice more to check the links), since blocks keep buffers; it must build the same
+// link every time for the same point. Declare a custom block's buffers inside it, so each link
+// gets its own: a run whose links share a block or its state is refused.
 func (x *Experiment) Link(build func(p Point) *link.Link) *Experiment {
 	if build == nil {
 		x.spec.Build = nil
