@@ -31,7 +31,7 @@ type Spec struct {
 	// any frame is computed, so a point that had ended ends again, for the same rule.
 	Start *State
 	// Shard, when set, selects the frames this run computes: frame f is computed when
-	// f % Of == Index, and Start, Outcome and OnProgress count this shard's frames only. Its
+	// f % Of == Index, and Start, Outcome and the observers count this shard's frames only. Its
 	// counts are not a prefix of the point, so the rules cannot be judged on them; see Shard
 	// for when a shard ends.
 	Shard *Shard
