@@ -51,7 +51,7 @@ func Run(s *Spec, o *Options) {
 	if o.ran != "" {
 		Fail(&Failure{Pos: at, Err: fmt.Errorf("sim: this script already ran the experiment %q, whose outputs are in %s; "+
 			"a script runs one experiment: put %q in a file of its own, or sweep both as choices of one experiment (x.SweepLabels)",
-			o.ran, output.Dir(o.Script), s.Name)})
+			o.ran, output.Dir(o.Script)+string(filepath.Separator), s.Name)})
 	}
 	o.ran = s.Name
 	r, err := x.execute()
