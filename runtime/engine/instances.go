@@ -2,6 +2,7 @@ package engine
 
 import (
 	"fmt"
+	"go/token"
 	"hash/fnv"
 	"math"
 	"reflect"
@@ -31,14 +32,17 @@ import (
 //     which they differ.
 //
 // tally's compiled blocks are exempt from the frame comparison: each keeps its buffers in its
-// own value and draws only from the frame's stream (the contract in package link, tested
-// block by block against single-instance runs and by the engine's worker-count tests), so
-// only the identity check, which costs one build, applies to links of built-in blocks.
+// own value and draws only from the frame's stream (the contract in package link, held to
+// this check by TestBuiltinBlocksPassInstanceCheck), so a link of built-in blocks costs one
+// build for the identity check — unless blocks of the two links point to one object a script
+// makes (a modem, code or interleaver made outside the Link function): then the comparison
+// runs, since an interleaver keeps the permutation of its frame while a modem's tables are
+// only read.
 func checkInstances(s Spec, first, second *link.Link) error {
 	if err := sameObjects(first, second); err != nil {
 		return err
 	}
-	if !hasCustom(first) {
+	if !hasCustom(first) && !sharesState(first, second) {
 		return nil
 	}
 	a, err := s.Build()
@@ -71,6 +75,59 @@ func sameObjects(a, b *link.Link) error {
 		}
 	}
 	return nil
+}
+
+// sharesState reports whether blocks of the two links hold a pointer to one object: a block
+// made from a modem, code or interleaver that the script made once, outside its Link
+// function. Such sharing is often harmless (a modem's tables are only read) and sometimes not
+// (an interleaver keeps the permutation of the frame it is on), so it makes the frame
+// comparison run, which tells the two apart.
+func sharesState(a, b *link.Link) bool {
+	seen := map[uintptr]bool{}
+	for _, x := range a.Blocks() {
+		structPointers(reflect.ValueOf(x), 0, seen, nil)
+	}
+	shared := false
+	mark := map[uintptr]bool{}
+	for _, y := range b.Blocks() {
+		structPointers(reflect.ValueOf(y), 0, mark, func(p uintptr) {
+			if seen[p] {
+				shared = true
+			}
+		})
+	}
+	return shared
+}
+
+// structPointers visits the pointers to structs reachable from v through struct fields and
+// interfaces, a few levels deep, and reports those below the top (the block itself) to found.
+func structPointers(v reflect.Value, depth int, seen map[uintptr]bool, found func(uintptr)) {
+	if !v.IsValid() || depth > 4 {
+		return
+	}
+	switch v.Kind() {
+	case reflect.Interface:
+		structPointers(v.Elem(), depth, seen, found)
+	case reflect.Pointer:
+		if v.IsNil() || v.Elem().Kind() != reflect.Struct {
+			return
+		}
+		p := v.Pointer()
+		if seen[p] {
+			return
+		}
+		seen[p] = true
+		// Only objects of exported types count: those a script can make (a modem, a code, an
+		// interleaver); a package's own tables (a Galois field's, say) are shared on purpose.
+		if depth > 0 && found != nil && token.IsExported(v.Elem().Type().Name()) {
+			found(p)
+		}
+		structPointers(v.Elem(), depth+1, seen, found)
+	case reflect.Struct:
+		for i := range v.NumField() {
+			structPointers(v.Field(i), depth, seen, found)
+		}
+	}
 }
 
 // hasCustom reports whether a link has a block that is not one of tally's compiled blocks.
@@ -158,18 +215,30 @@ func (c *checker) refuse(k int, what string) error {
 			names = append(names, fmt.Sprintf("%q", link.NameOf(b)))
 		}
 	}
-	who := "the link"
+	who, advice := "the link", "Keep every block's buffers and variables inside the Link function, so each link gets its own"
+	custAdvice := "Keep its buffers and variables inside the Link function (declared there, not outside it), so each link gets its own"
 	switch {
 	case k < len(blocks) && custom(blocks[k]):
-		who = fmt.Sprintf("the custom block %q", link.NameOf(blocks[k]))
+		who, advice = fmt.Sprintf("the custom block %q", link.NameOf(blocks[k])), custAdvice
+	case k < len(blocks):
+		who = fmt.Sprintf("the block %q", link.NameOf(blocks[k]))
+		advice = "Make it, and the modem, code or interleaver it comes from, inside the Link function, so each link gets its own"
+		var before []string
+		for _, b := range blocks[:k] {
+			if custom(b) {
+				before = append(before, fmt.Sprintf("%q", link.NameOf(b)))
+			}
+		}
+		if len(before) > 0 {
+			who += " (or the custom block before it: " + strings.Join(before, ", ") + ")"
+			advice += "; keep custom blocks' buffers and variables there too"
+		}
 	case len(names) == 1:
-		who = "the custom block " + names[0]
-	default:
-		who = "one of the custom blocks " + strings.Join(names, ", ")
+		who, advice = "the custom block "+names[0], custAdvice
+	case len(names) > 1:
+		who, advice = "one of the custom blocks "+strings.Join(names, ", "), custAdvice
 	}
-	return fmt.Errorf("point %d: %s %s, so the table would depend on the number of workers. "+
-		"Keep its buffers and variables inside the Link function (declared there, not outside it), so each link gets its own",
-		c.s.Point+1, who, what)
+	return fmt.Errorf("point %d: %s %s, so the table would depend on the number of workers. %s", c.s.Point+1, who, what, advice)
 }
 
 // alone computes frame index on l by itself.

@@ -5,8 +5,12 @@ import (
 	"strings"
 	"testing"
 
+	"tally/blocks/channel"
+	"tally/blocks/fec"
 	"tally/blocks/link"
+	"tally/blocks/modem"
 	"tally/blocks/rng"
+	"tally/blocks/source"
 	"tally/blocks/stop"
 )
 
@@ -77,5 +81,29 @@ func TestFrameStateAndSharedBlockRefused(t *testing.T) {
 	}
 	if _, err := Run(context.Background(), spec); err == nil || !strings.Contains(err.Error(), `"tap"`) || !strings.Contains(err.Error(), "one object shared") {
 		t.Errorf("shared block object: %v", err)
+	}
+}
+
+// A compiled block made from an object the script made once, outside the function that
+// builds each link, shares that object's state: a random interleaver keeps the permutation
+// of the frame it is on, so one made outside is refused (naming the block after which frames
+// differ), while a modem made outside, whose tables are only read, passes.
+func TestSharedInterleaverRefusedSharedModemRuns(t *testing.T) {
+	il := fec.RandomInterleaver()
+	m := modem.QPSK()
+	outside := func() (*link.Link, error) {
+		return link.Chain(source.Random(1024), il.Interleave(), m.Mod(), channel.AWGN(3), m.Demod(), il.Deinterleave()), nil
+	}
+	spec := Spec{Point: testPoint, Seed: testSeed, Workers: 1, Build: outside, Rules: []stop.Rule{stop.Bits(20 * 1024)}}
+	_, err := Run(context.Background(), spec)
+	if err == nil || !strings.Contains(err.Error(), `block "fec.RandomInterleaver deinterleave"`) || !strings.Contains(err.Error(), "interleaver it comes from, inside the Link function") {
+		t.Errorf("interleaver made outside: %v; want a refusal naming the deinterleaver", err)
+	}
+	spec.Build = func() (*link.Link, error) {
+		il := fec.RandomInterleaver()
+		return link.Chain(source.Random(1024), il.Interleave(), m.Mod(), channel.AWGN(3), m.Demod(), il.Deinterleave()), nil
+	}
+	if _, err := Run(context.Background(), spec); err != nil {
+		t.Errorf("modem made outside, interleaver inside: %v", err)
 	}
 }
