@@ -336,6 +336,11 @@ func gates(l *link.Link, before func(int) bool, next func(int)) *gated {
 	for k, b := range bs {
 		bs[k] = &gate{g: g, k: k, b: b}
 	}
+	if len(bs) > 0 {
+		if _, ok := l.Blocks()[0].(*gate); !ok {
+			panic("engine: link.Link.Blocks no longer gives the link's own slice; the instance check cannot order blocks")
+		}
+	}
 	return g
 }
 
