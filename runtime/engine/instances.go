@@ -167,7 +167,8 @@ type trace struct {
 }
 
 func (t trace) same(u trace) bool {
-	return t.err == nil && u.err == nil && slices.Equal(t.counts, u.counts) && slices.Equal(t.after, u.after)
+	// DeepEqual, not ==: it compiles whatever fields a Tally gains.
+	return t.err == nil && u.err == nil && reflect.DeepEqual(t.counts, u.counts) && slices.Equal(t.after, u.after)
 }
 
 // firstDiff is the first block after which two traces differ (len(after) for the counts).
