@@ -95,9 +95,9 @@ func (c *clock) finish(end int64) {
 
 // blockCount counts errored blocks over the whole capture (without a line rate as well).
 type blockCount struct {
-	size      int64
-	last      int64 // last errored block, −1 none
-	errored   int64
+	size    int64
+	last    int64 // last errored block, −1 none
+	errored int64
 }
 
 func newBlockCount(size int64) *blockCount { return &blockCount{size: size, last: -1} }

@@ -55,8 +55,8 @@ type bitReader struct {
 	nacc  uint
 	digit int // hex: the first digit of a byte, −1 when none is pending
 	dpos  int64
-	i, n  int  // unread bytes buf[i:n]
-	eof   bool // the input is exhausted
+	i, n  int   // unread bytes buf[i:n]
+	eof   bool  // the input is exhausted
 	bits  int64 // bits delivered
 }
 
@@ -232,7 +232,9 @@ func describeByte(c byte) string {
 	return fmt.Sprintf("the byte 0x%02x", c)
 }
 
-func isSpace(c byte) bool { return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' || c == '\v' }
+func isSpace(c byte) bool {
+	return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f' || c == '\v'
+}
 
 func hexValue(c byte) int {
 	switch {

@@ -23,7 +23,7 @@ type G821 struct {
 	ESR         float64  `json:"esr"`  // ES / available seconds (NaN-free: 0 when none)
 	SESR        float64  `json:"sesr"` // SES / available seconds
 	Periods     []Period `json:"unavailable_periods"`
-	Pending     int      `json:"pending_seconds"` // seconds at the end whose run did not reach ten
+	Pending     int      `json:"pending_seconds"`  // seconds at the end whose run did not reach ten
 	Errors      int64    `json:"errors_available"` // bit errors in available time
 	Bits        int64    `json:"bits_available"`   // bits compared in available time
 

@@ -19,21 +19,21 @@ package capture
 // detects errored blocks with the path's own error detection code; counting bit errors
 // against the known pattern finds every errored block that code could.
 type G826 struct {
-	Block            int64    `json:"block_bits"`
-	BlocksPerSecond  int64    `json:"blocks_per_second"`
-	Seconds          int64    `json:"seconds"`
-	Available        int64    `json:"available_seconds"`
-	Unavailable      int64    `json:"unavailable_seconds"`
-	ES               int64    `json:"errored_seconds"`
-	SES              int64    `json:"severely_errored_seconds"`
-	BBE              int64    `json:"background_block_errors"`
-	BBEBlocks        int64    `json:"background_blocks"` // blocks of available time outside SES
-	ErroredBlocks    int64    `json:"errored_blocks_available"`
-	ESR              float64  `json:"esr"`
-	SESR             float64  `json:"sesr"`
-	BBER             float64  `json:"bber"`
-	Periods          []Period `json:"unavailable_periods"`
-	Pending          int      `json:"pending_seconds"`
+	Block           int64    `json:"block_bits"`
+	BlocksPerSecond int64    `json:"blocks_per_second"`
+	Seconds         int64    `json:"seconds"`
+	Available       int64    `json:"available_seconds"`
+	Unavailable     int64    `json:"unavailable_seconds"`
+	ES              int64    `json:"errored_seconds"`
+	SES             int64    `json:"severely_errored_seconds"`
+	BBE             int64    `json:"background_block_errors"`
+	BBEBlocks       int64    `json:"background_blocks"` // blocks of available time outside SES
+	ErroredBlocks   int64    `json:"errored_blocks_available"`
+	ESR             float64  `json:"esr"`
+	SESR            float64  `json:"sesr"`
+	BBER            float64  `json:"bber"`
+	Periods         []Period `json:"unavailable_periods"`
+	Pending         int      `json:"pending_seconds"`
 
 	avail availability
 }

@@ -51,18 +51,18 @@ type Report struct {
 
 	Bursts BurstReport `json:"bursts"`
 
-	Rate                 int64  `json:"rate,omitempty"`
-	ErroredSeconds       *int64 `json:"errored_seconds"`
-	SeverelyErrored      *int64 `json:"severely_errored_seconds"`
-	UnavailableSeconds   *int64 `json:"unavailable_seconds"`
-	LeftOverBits         int64  `json:"bits_after_last_second,omitempty"`
-	G821                 *G821  `json:"g821,omitempty"`
-	G826                 *G826  `json:"g826,omitempty"`
-	Block                int64  `json:"block_bits,omitempty"`
-	Blocks               int64  `json:"blocks,omitempty"`
-	ErroredBlocks        int64  `json:"errored_blocks,omitempty"`
-	BlockErrorRatio      float64 `json:"block_error_ratio,omitempty"`
-	Interval             int64  `json:"interval_bits"`
+	Rate               int64   `json:"rate,omitempty"`
+	ErroredSeconds     *int64  `json:"errored_seconds"`
+	SeverelyErrored    *int64  `json:"severely_errored_seconds"`
+	UnavailableSeconds *int64  `json:"unavailable_seconds"`
+	LeftOverBits       int64   `json:"bits_after_last_second,omitempty"`
+	G821               *G821   `json:"g821,omitempty"`
+	G826               *G826   `json:"g826,omitempty"`
+	Block              int64   `json:"block_bits,omitempty"`
+	Blocks             int64   `json:"blocks,omitempty"`
+	ErroredBlocks      int64   `json:"errored_blocks,omitempty"`
+	BlockErrorRatio    float64 `json:"block_error_ratio,omitempty"`
+	Interval           int64   `json:"interval_bits"`
 }
 
 // BurstReport is the burst statistics with the definition they follow.

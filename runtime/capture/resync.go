@@ -38,7 +38,7 @@ func cut(oldErr, newErr []uint64, n int) (s1, s2, lo, hi int) {
 		return l*lostPerBit + lostFixed
 	}
 	best := int(^uint(0) >> 1)
-	pre := 0             // old errors in [0, j)
+	pre := 0                // old errors in [0, j)
 	bestTerm, bestI := 0, 0 // min over i < j of 4·pre(i) − i
 	for j := 0; j <= n; j++ {
 		// candidates ending the old alignment at i and starting the new at j

@@ -80,12 +80,12 @@ func (t *rows) finish(end int64) []Row {
 // (errors given by a mask), not compared (lost), and where the alignment changed.
 type sink struct {
 	errors, lost, before int64
-	rows                       *rows
-	bursts                     *bursts
-	clock                      *clock // nil without a line rate
-	blocks                     *blockCount
-	slips                      []Slip
-	slipCount                  int64
+	rows                 *rows
+	bursts               *bursts
+	clock                *clock // nil without a line rate
+	blocks               *blockCount
+	slips                []Slip
+	slipCount            int64
 }
 
 // maxSlipsKept bounds the slips listed one by one (all are counted).
