@@ -4,27 +4,31 @@ import (
 	"fmt"
 	"io"
 	"math/bits"
+	"slices"
 )
 
 // reference is a known bit sequence read from a file, repeated cyclically: capture bit p
-// expects reference bit (p + off) mod L. Locking searches every offset for the one whose
-// next lockBits bits match the capture, in both polarities.
+// expects reference bit (p + off) mod L. Locking finds the offsets whose next lockBits bits
+// match the capture, in both polarities, through an index of the reference's 32-bit words
+// at every bit offset.
 type reference struct {
 	name string
 	n    int64    // L, bits
-	ext  []uint64 // the sequence repeated to at least L + 192 bits, so any 64 bits at j < L read in place
+	ext   []uint64 // the sequence repeated to at least L + 192 bits, so any 64 bits at j < L read in place
+	index []uint64 // sorted: the 32 bits from j on (high half), j (low half), for every j < L
 }
 
-// maxRefBits bounds a reference file (it is held in memory; the capture is not).
-const maxRefBits = 1 << 33
+// maxRefBits bounds a reference file (1 MiB packed): it is held in memory with an index of
+// 8 bytes a bit; the capture is not held.
+const maxRefBits = 1 << 23
 
 func readReference(name string, in io.Reader, f Format, lsb bool) (*reference, error) {
-	r := newBitReader(in, f, lsb)
+	rd := newBitReader(in, f, lsb)
 	var words []uint64
 	var n int64
 	chunk := make([]uint64, 1<<13)
 	for {
-		nb, err := r.read(chunk)
+		nb, err := rd.read(chunk)
 		if err == io.EOF {
 			break
 		}
@@ -48,7 +52,12 @@ func readReference(name string, in io.Reader, f Format, lsb bool) (*reference, e
 	for i := int64(0); i < int64(len(ext))*64; i += 64 {
 		ext[i/64] = getCyclic(words, n, i%n)
 	}
-	return &reference{name: name, n: n, ext: ext}, nil
+	r := &reference{name: name, n: n, ext: ext, index: make([]uint64, n)}
+	for j := range n {
+		r.index[j] = uint64(uint32(r.at64(j)))<<32 | uint64(j)
+	}
+	slices.Sort(r.index)
+	return r, nil
 }
 
 // getCyclic is the 64 bits of the cyclic sequence words (n bits) from bit j < n on.
@@ -87,53 +96,40 @@ func (r *reference) at64(j int64) uint64 {
 
 func (r *reference) lockSpan() (int64, int64) { return 0, lockBits }
 
-// tryLock tries the offsets within maxShift of the hint first, then every offset; among
-// those that match it keeps the fewest mismatches, then the one nearest the hint (a periodic
-// reference matches at several).
+// tryLock looks up the capture's next 32 bits (and their complement) in the index and checks
+// each place they occur over lockBits bits; among those that match it keeps the fewest
+// mismatches, then the one nearest the hint (a periodic reference matches at several). An
+// error among those 32 bits hides the place; the search then moves on to later bits.
 func (r *reference) tryLock(w *bitWindow, q int64, hint *alignment) (alignment, bool) {
 	if !w.has(q, q+lockBits) {
 		return alignment{}, false
 	}
 	x0, x1 := w.get(q, 64), w.get(q+64, 64)
-	if hint != nil && r.n > 2*maxShift+1 {
-		if a, ok := r.scan(x0, x1, q, mod(q+hint.off-maxShift, r.n), 2*maxShift+1, hint); ok {
-			return a, true
-		}
-	}
-	return r.scan(x0, x1, q, 0, r.n, hint)
-}
-
-// scan tries count offsets, from the one that puts reference bit j0 at capture bit q on.
-func (r *reference) scan(x0, x1 uint64, q, j0, count int64, hint *alignment) (alignment, bool) {
 	best, bestMiss, bestDist := alignment{}, lockSlack+1, int64(-1)
-	j := j0
-	for range count { // j = (q + off) mod L
-		d0 := bits.OnesCount64(r.at64(j) ^ x0)
-		inv := d0 > 32
+	for _, inv := range []bool{false, true} {
+		var flip uint64
 		if inv {
-			d0 = 64 - d0
+			flip = ^uint64(0)
 		}
-		if d0 <= lockSlack {
-			d1 := bits.OnesCount64(r.at64((j+64)%r.n) ^ x1)
-			if inv {
-				d1 = 64 - d1
+		key := uint64(uint32(x0 ^ flip))
+		i, _ := slices.BinarySearch(r.index, key<<32)
+		for ; i < len(r.index) && r.index[i]>>32 == key; i++ {
+			j := int64(r.index[i] & 0xffffffff)
+			miss := bits.OnesCount64(r.at64(j)^x0^flip) + bits.OnesCount64(r.at64((j+64)%r.n)^x1^flip)
+			if miss > lockSlack {
+				continue
 			}
-			if miss := d0 + d1; miss <= lockSlack {
-				off := mod(j-q, r.n)
-				dist := int64(0)
-				if hint != nil {
-					dist = abs64(symmetric(off-hint.off, r.n))
-					if inv != hint.inv {
-						dist += r.n
-					}
-				}
-				if miss < bestMiss || miss == bestMiss && dist < bestDist {
-					best, bestMiss, bestDist = alignment{inv: inv, pos: q, off: off}, miss, dist
+			off := mod(j-q, r.n)
+			dist := int64(0)
+			if hint != nil {
+				dist = abs64(symmetric(off-hint.off, r.n))
+				if inv != hint.inv {
+					dist += r.n
 				}
 			}
-		}
-		if j++; j == r.n {
-			j = 0
+			if miss < bestMiss || miss == bestMiss && dist < bestDist {
+				best, bestMiss, bestDist = alignment{inv: inv, pos: q, off: off}, miss, dist
+			}
 		}
 	}
 	return best, bestMiss <= lockSlack
