@@ -12,8 +12,8 @@ import (
 // match the capture, in both polarities, through an index of the reference's 32-bit words
 // at every bit offset.
 type reference struct {
-	name string
-	n    int64    // L, bits
+	name  string
+	n     int64    // L, bits
 	ext   []uint64 // the sequence repeated to at least L + 192 bits, so any 64 bits at j < L read in place
 	index []uint64 // sorted: the 32 bits from j on (high half), j (low half), for every j < L
 }
