@@ -1,7 +1,6 @@
 package main
 
 import (
-	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
@@ -165,12 +164,12 @@ func countCmd(args []string, stdout, stderr io.Writer) int {
 		}
 	}
 	if *asJSON {
-		b, err := json.MarshalIndent(r, "", "  ")
+		b, err := capture.JSON(r)
 		if err != nil {
 			fmt.Fprintf(stderr, "tally count: %v\n", err)
 			return 1
 		}
-		fmt.Fprintln(stdout, string(b))
+		stdout.Write(b)
 		return 0
 	}
 	fmt.Fprint(stdout, capture.Text(r))
@@ -226,7 +225,7 @@ func explain(o capture.Options, err error) string {
 		if o.RefName != "" {
 			pat = "the reference " + o.RefName
 		}
-		return fmt.Sprintf("%s never locks: %s was not found, normal or inverted, anywhere in its %d bits (bytes 0 to %d); check -prbs/-ref, -format and -lsb; nothing written",
+		return fmt.Sprintf("%s never locks: %s was not found, normal or inverted, anywhere in its %d bits (%d bytes); check -prbs/-ref, -format and -lsb; nothing written",
 			what, pat, nl.Bits, nl.Bytes)
 	}
 	return fmt.Sprintf("%s: %v; nothing written", what, err)

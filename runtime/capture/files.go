@@ -27,7 +27,7 @@ type Record struct {
 // run.json, errors.svg, errors.png and README.md. args is the command line (for run.json and
 // the README).
 func Files(r *Report, c *Counts, args []string, now time.Time) ([]output.File, error) {
-	rec, err := json.MarshalIndent(Record{Tool: "tally count", GoVersion: goruntime.Version(), Command: args, Written: now.UTC(), Report: r}, "", "  ")
+	rec, err := JSON(Record{Tool: "tally count", GoVersion: goruntime.Version(), Command: args, Written: now.UTC(), Report: r})
 	if err != nil {
 		return nil, fmt.Errorf("run.json: %w", err)
 	}
@@ -42,11 +42,23 @@ func Files(r *Report, c *Counts, args []string, now time.Time) ([]output.File, e
 	}
 	return []output.File{
 		{Name: "table.csv", Data: Table(c)},
-		{Name: "run.json", Data: append(rec, '\n')},
+		{Name: "run.json", Data: rec},
 		{Name: "errors.svg", Data: svg},
 		{Name: "errors.png", Data: png},
 		{Name: "README.md", Data: summary(r, args)},
 	}, nil
+}
+
+// JSON is v indented, with <, > and & as they are, and a final newline.
+func JSON(v any) ([]byte, error) {
+	var b bytes.Buffer
+	enc := json.NewEncoder(&b)
+	enc.SetEscapeHTML(false)
+	enc.SetIndent("", "  ")
+	if err := enc.Encode(v); err != nil {
+		return nil, err
+	}
+	return b.Bytes(), nil
 }
 
 // Table is table.csv: a row per interval of the capture, with its time span when the line
@@ -83,7 +95,7 @@ func trace(r *Report, c *Counts) plots.ErrorTrace {
 		Title:  "Errors in " + r.Capture,
 		XLabel: label,
 	}
-	parts := []string{r.Pattern + " " + r.Polarity,
+	parts := []string{r.Pattern + ", received " + r.Polarity,
 		fmt.Sprintf("%s errors in %s bits, BER %s", grouped(r.Errors), grouped(r.Bits), g3(r.BER)),
 		fmt.Sprintf("rows of %s bits", grouped(c.Interval))}
 	if c.Rate > 0 {

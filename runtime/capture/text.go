@@ -20,7 +20,7 @@ func Text(r *Report) string {
 	if r.Offset != nil {
 		off = fmt.Sprintf(", reference bit %s under the capture's first bit", grouped(*r.Offset))
 	}
-	p("pattern: %s, received %s%s; %s", r.Pattern, r.Polarity, off, lock)
+	p("pattern: %s, received %s%s%s; %s", r.Pattern, r.Polarity, o150(r), off, lock)
 	p("compared %s bits: %s, BER %s", grouped(r.Bits), plural(r.Errors, "error"), g3(r.BER))
 	p("%s interval (%s): %s to %s; one-sided upper limit %s", percent(r.Confidence), r.Method, g3(r.Low), g3(r.High), g3(r.Upper))
 	if r.Verdict != "" {
@@ -84,6 +84,19 @@ func Text(r *Report) string {
 	return b.String()
 }
 
+// o150 notes whether the polarity is the one O.150 sends: the 2^15−1, 2^23−1, 2^29−1 and
+// 2^31−1 sequences inverted, the others not (as tally/blocks/source; from memory).
+func o150(r *Report) string {
+	if r.PRBS == 0 {
+		return ""
+	}
+	inv := r.PRBS == 15 || r.PRBS == 23 || r.PRBS == 29 || r.PRBS == 31
+	if inv == (r.Polarity == "inverted") {
+		return " (as O.150 sends it)"
+	}
+	return " (O.150 sends it " + map[bool]string{true: "inverted", false: "normal"}[inv] + ": check the transmitter's setting)"
+}
+
 func dispersionLine(r *Report) string {
 	rows := fmt.Sprintf("%s rows of %s bits", grouped(r.DispersionRows), grouped(r.Interval))
 	switch {
@@ -99,11 +112,11 @@ func dispersionLine(r *Report) string {
 
 func describeSlip(s Slip, rate int64) string {
 	at := "bit " + grouped(s.Bit)
-	if rate > 0 {
-		at += fmt.Sprintf(" (%s s)", g4(float64(s.Bit)/float64(rate)))
-	}
 	if s.Spread > 0 {
-		at += fmt.Sprintf(" (±%d)", (s.Spread+1)/2)
+		at += fmt.Sprintf(" (+%d: the bits there fit both alignments)", s.Spread)
+	}
+	if rate > 0 {
+		at += fmt.Sprintf(", %s s", g4(float64(s.Bit)/float64(rate)))
 	}
 	var what string
 	switch {
