@@ -340,6 +340,7 @@ func (c *counter) hunt(win *bitWindow, old *alignment, exp []uint64) (done bool,
 				old, exp = nil, nil
 			} else {
 				c.out.notCompared(win.base, keep-win.base, !c.ever)
+				c.addToLoss(keep - win.base)
 				win.drop(keep)
 			}
 			q = max(q, win.base+before)
@@ -352,6 +353,14 @@ func (c *counter) hunt(win *bitWindow, old *alignment, exp []uint64) (done bool,
 func (c *counter) giveUp(win *bitWindow, exp []uint64) {
 	c.resolveEnd(win, exp, win.end)
 	win.words, win.base = win.words[:0], win.end // the window holds whole words here
+}
+
+// addToLoss adds n lost bits to a loss of alignment still in progress (given up, not
+// regained).
+func (c *counter) addToLoss(n int64) {
+	if k := len(c.out.slips); c.ever && k > 0 && int64(k) == c.out.slipCount && !c.out.slips[k-1].Regained {
+		c.out.slips[k-1].Lost += n
+	}
 }
 
 // endHunt settles the window at the end of the capture.
@@ -367,6 +376,7 @@ func (c *counter) endHunt(win *bitWindow, old *alignment, exp []uint64) error {
 		return &NoLockError{Bits: c.src.total, Bytes: c.src.rd.offset}
 	}
 	c.out.notCompared(win.base, win.end-win.base, false)
+	c.addToLoss(win.end - win.base)
 	return nil
 }
 
@@ -420,9 +430,9 @@ func (c *counter) lock(win *bitWindow, old *alignment, exp []uint64, a alignment
 		c.out.notCompared(win.base, int64(s2), !c.ever)
 		if c.ever {
 			// the loss was given up earlier: the slip it began is now regained
-			if k := len(c.out.slips); k > 0 && !c.out.slips[k-1].Regained {
+			c.addToLoss(int64(s2))
+			if k := len(c.out.slips); k > 0 && int64(k) == c.out.slipCount && !c.out.slips[k-1].Regained {
 				c.out.slips[k-1].Regained = true
-				c.out.slips[k-1].Lost += int64(s2)
 				c.out.slips[k-1].Inverted = a.inv
 			}
 		} else {
