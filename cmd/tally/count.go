@@ -220,6 +220,8 @@ func explain(o capture.Options, err error) string {
 		return fmt.Sprintf("%s is not %s: at byte %d, %s; nothing written", what, o.Format, fe.Offset, fe.Msg)
 	case errors.Is(err, capture.ErrEmpty):
 		return fmt.Sprintf("%s is empty: it holds no bits; nothing written", what)
+	case errors.As(err, &nl) && nl.Bits < nl.Need:
+		return fmt.Sprintf("%s is too short to lock: it holds %d bits, a lock needs %d; nothing written", what, nl.Bits, nl.Need)
 	case errors.As(err, &nl):
 		pat := fmt.Sprintf("the PRBS of order %d", o.PRBS)
 		if o.RefName != "" {

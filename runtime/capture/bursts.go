@@ -23,14 +23,15 @@ type bursts struct {
 	start, last int64
 	errs        int64
 
-	Count     int64     // bursts
-	Errors    int64     // errors in them (all errors)
-	LengthSum int64     // Σ lengths
-	MaxLength int64     // longest burst
-	MaxStart  int64     // where the longest began
-	MaxErrors int64     // errors in the longest
-	Multi     int64     // bursts of two or more errors
-	Lengths   [64]int64 // bursts by length: [b] holds lengths 2^b … 2^(b+1)−1
+	Count                             int64     // bursts
+	Errors                            int64     // errors in them (all errors)
+	LengthSum                         int64     // Σ lengths
+	MaxLength                         int64     // longest burst
+	MaxStart                          int64     // where the longest began
+	MaxErrors                         int64     // errors in the longest
+	MostErrors, MostStart, MostLength int64     // the burst with the most errors
+	Multi                             int64     // bursts of two or more errors
+	Lengths                           [64]int64 // bursts by length: [b] holds lengths 2^b … 2^(b+1)−1
 
 	prev      int64 // last error, −1 after a gap in the comparison
 	Gaps      int64 // gaps measured
@@ -75,6 +76,9 @@ func (b *bursts) close() {
 	}
 	if n > b.MaxLength {
 		b.MaxLength, b.MaxStart, b.MaxErrors = n, b.start, b.errs
+	}
+	if b.errs > b.MostErrors {
+		b.MostErrors, b.MostStart, b.MostLength = b.errs, b.start, n
 	}
 	b.Lengths[bits.Len64(uint64(n))-1]++
 }

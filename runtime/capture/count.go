@@ -94,6 +94,7 @@ var (
 type NoLockError struct {
 	Bits  int64
 	Bytes int64
+	Need  int64 // the fewest bits a lock can be found in
 }
 
 func (e *NoLockError) Error() string {
@@ -373,7 +374,8 @@ func (c *counter) endHunt(win *bitWindow, old *alignment, exp []uint64) error {
 		if c.src.total == 0 {
 			return ErrEmpty
 		}
-		return &NoLockError{Bits: c.src.total, Bytes: c.src.rd.offset}
+		before, after := c.pat.lockSpan()
+		return &NoLockError{Bits: c.src.total, Bytes: c.src.rd.offset, Need: before + after}
 	}
 	c.out.notCompared(win.base, win.end-win.base, false)
 	c.addToLoss(win.end - win.base)

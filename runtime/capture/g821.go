@@ -20,8 +20,9 @@ type G821 struct {
 	Unavailable int64    `json:"unavailable_seconds"`
 	ES          int64    `json:"errored_seconds"`
 	SES         int64    `json:"severely_errored_seconds"`
-	ESR         float64  `json:"esr"`  // ES / available seconds (NaN-free: 0 when none)
-	SESR        float64  `json:"sesr"` // SES / available seconds
+	SESDefect   int64    `json:"severely_errored_by_alignment"` // SES from a loss of alignment
+	ESR         float64  `json:"esr"`                           // ES / available seconds (NaN-free: 0 when none)
+	SESR        float64  `json:"sesr"`                          // SES / available seconds
 	Periods     []Period `json:"unavailable_periods"`
 	Pending     int      `json:"pending_seconds"`  // seconds at the end whose run did not reach ten
 	Errors      int64    `json:"errors_available"` // bit errors in available time
@@ -58,6 +59,9 @@ func (g *G821) commit(s second, available bool) {
 	}
 	if ses821(s) {
 		g.SES++
+		if s.Defect || s.Bits == 0 {
+			g.SESDefect++
+		}
 	}
 }
 

@@ -75,6 +75,9 @@ type BurstReport struct {
 	MaxLength    int64   `json:"max_length"`
 	MaxStart     int64   `json:"max_start_bit"`
 	MaxErrors    int64   `json:"max_errors"`
+	MostErrors   int64   `json:"most_errors"`
+	MostStart    int64   `json:"most_errors_start_bit"`
+	MostLength   int64   `json:"most_errors_length"`
 	MeanErrors   float64 `json:"mean_errors"`
 	Lengths      []Bin   `json:"lengths"`
 	Gaps         int64   `json:"gaps"`
@@ -203,7 +206,8 @@ func verdict(r *Report, spec float64) string {
 
 func burstReport(b *bursts, guard int64, ber float64) BurstReport {
 	br := BurstReport{Definition: BurstDefinition(guard), Guard: guard, Count: b.Count, Multi: b.Multi,
-		MaxLength: b.MaxLength, MaxStart: b.MaxStart, MaxErrors: b.MaxErrors, Gaps: b.Gaps, ShortGaps: b.ShortGaps,
+		MaxLength: b.MaxLength, MaxStart: b.MaxStart, MaxErrors: b.MaxErrors,
+		MostErrors: b.MostErrors, MostStart: b.MostStart, MostLength: b.MostLength, Gaps: b.Gaps, ShortGaps: b.ShortGaps,
 		Lengths: []Bin{}, GapHist: []Bin{}}
 	if b.Count > 0 {
 		br.MeanLength = float64(b.LengthSum) / float64(b.Count)

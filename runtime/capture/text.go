@@ -45,8 +45,9 @@ func Text(r *Report) string {
 	br := r.Bursts
 	p("bursts (%s): %s, %d of two or more errors", br.Definition, plural(br.Count, "burst"), br.Multi)
 	if br.Count > 0 {
-		p("  mean length %s bits (%s errors); longest %s bits with %s at bit %s", g3(br.MeanLength), g3(br.MeanErrors),
-			grouped(br.MaxLength), plural(br.MaxErrors, "error"), grouped(br.MaxStart))
+		p("  mean length %s bits (%s errors); longest %s bits with %s at bit %s; most errors %s in %s bits at bit %s",
+			g3(br.MeanLength), g3(br.MeanErrors), grouped(br.MaxLength), plural(br.MaxErrors, "error"), grouped(br.MaxStart),
+			grouped(br.MostErrors), grouped(br.MostLength), grouped(br.MostStart))
 	}
 	if br.Gaps > 0 {
 		p("  error-free gaps: mean %s bits; %s shorter than the guard, %s if errors were independent at this BER",
@@ -56,8 +57,8 @@ func Text(r *Report) string {
 	if g := r.G821; g != nil {
 		p("ITU-T G.821 at %s, %s whole seconds: %s available, %s unavailable", rateText(r.Rate), grouped(g.Seconds),
 			grouped(g.Available), grouped(g.Unavailable))
-		p("  errored seconds %s (ESR %s), severely errored %s (SESR %s); BER in available time %s",
-			grouped(g.ES), g3(g.ESR), grouped(g.SES), g3(g.SESR), g3(ratio(g.Errors, g.Bits)))
+		p("  errored seconds %s (ESR %s), severely errored %s (SESR %s; %s by BER ≥ 1e-3, %s by a loss of alignment); BER in available time %s",
+			grouped(g.ES), g3(g.ESR), grouped(g.SES), g3(g.SESR), grouped(g.SES-g.SESDefect), grouped(g.SESDefect), g3(ratio(g.Errors, g.Bits)))
 		for i, u := range g.Periods {
 			if i == 10 {
 				p("  … %d more periods in run.json", len(g.Periods)-10)
@@ -112,8 +113,8 @@ func dispersionLine(r *Report) string {
 
 func describeSlip(s Slip, rate int64) string {
 	at := "bit " + grouped(s.Bit)
-	if s.Spread > 0 {
-		at += fmt.Sprintf(" (+%d: the bits there fit both alignments)", s.Spread)
+	if s.Spread > 0 { // the bits there fit both alignments
+		at = fmt.Sprintf("bits %s–%s", grouped(s.Bit), grouped(s.Bit+s.Spread))
 	}
 	if rate > 0 {
 		at += fmt.Sprintf(", %s s", g4(float64(s.Bit)/float64(rate)))
