@@ -337,8 +337,11 @@ func (c *counter) hunt(win *bitWindow, old *alignment, exp []uint64) (done bool,
 		if len(win.words) > maxHunt {
 			keep := win.base + int64(len(win.words)-maxHunt/2)*64
 			if old != nil {
-				c.giveUp(win, exp)
-				old, exp = nil, nil
+				if c.giveUp(win, exp) {
+					old, exp = nil, nil
+				} else {
+					exp = exp[:0]
+				}
 			} else {
 				c.out.notCompared(win.base, keep-win.base, !c.ever)
 				c.addToLoss(keep - win.base)
@@ -349,11 +352,22 @@ func (c *counter) hunt(win *bitWindow, old *alignment, exp []uint64) (done bool,
 	}
 }
 
-// giveUp ends a loss of alignment that lasted past maxHunt: the window's bits are split
-// between the old alignment and lost, and the search goes on without the old alignment.
-func (c *counter) giveUp(win *bitWindow, exp []uint64) {
-	c.resolveEnd(win, exp, win.end)
+// giveUp settles a search that went on past maxHunt. When the old alignment still fits the
+// window (fewer errors than a quarter of its bits: a long stretch of errors, not a change of
+// alignment) the window is counted against it and the search goes on with it; otherwise the
+// window is split between the old alignment and lost bits, and the search goes on without it
+// (given up: true). Either way the window is emptied.
+func (c *counter) giveUp(win *bitWindow, exp []uint64) (givenUp bool) {
+	oldErr := xorWords(win.words, exp)
+	n := win.end - win.base
+	if 4*int64(popcount(oldErr)) < n {
+		commitBits(c.out, oldErr, win.base, 0, n)
+	} else {
+		c.resolveEnd(win, exp, win.end)
+		givenUp = true
+	}
 	win.words, win.base = win.words[:0], win.end // the window holds whole words here
+	return givenUp
 }
 
 // addToLoss adds n lost bits to a loss of alignment still in progress (given up, not
@@ -399,8 +413,9 @@ func (c *counter) resolveEnd(win *bitWindow, exp []uint64, end int64) {
 // lock settles the window once the pattern is found at q with alignment a.
 func (c *counter) lock(win *bitWindow, old *alignment, exp []uint64, a alignment, q int64) error {
 	_, after := c.pat.lockSpan()
-	// The region ends on a word boundary at or after the bits the lock was checked on.
-	end := (q + after + 63) &^ 63
+	// The region ends on the last word boundary within the bits the lock was checked on (the
+	// bits after it may hold the next slip: they go through follow).
+	end := (q + after) &^ 63
 	for win.end < end {
 		v, nb, ok, err := c.src.word()
 		if err != nil {
@@ -426,9 +441,14 @@ func (c *counter) lock(win *bitWindow, old *alignment, exp []uint64, a alignment
 		newErr[i] = rx[i] ^ g.next()
 	}
 	n := int(end - win.base)
+	resume := n // bits of the region committed here; the rest goes back through follow
+	// after the split to the new alignment: the next word boundary (a following slip, even
+	// within the bits the lock was checked on, is then seen by follow)
+	after1 := func(s2 int) int { return min(n, (s2+64)&^63) }
 	switch {
 	case old == nil:
 		_, s2, _, _ := cut(nil, newErr, n)
+		resume = after1(s2)
 		c.out.notCompared(win.base, int64(s2), !c.ever)
 		if c.ever {
 			// the loss was given up earlier: the slip it began is now regained
@@ -441,22 +461,29 @@ func (c *counter) lock(win *bitWindow, old *alignment, exp []uint64, a alignment
 			c.ever = true
 			c.first = c.pat.expect(a, win.base+int64(s2)).here()
 		}
-		commitBits(c.out, newErr, win.base, int64(s2), int64(n))
+		commitBits(c.out, newErr, win.base, int64(s2), int64(resume))
 	default:
 		oldErr := xorWords(rx, exp[:nw])
 		d, known := c.pat.shift(*old, a, q)
-		if known && d == 0 && old.inv == a.inv { // the same alignment: the errors were real
+		if known && d == 0 && old.inv == a.inv {
+			// The same alignment: a burst of errors, or two slips that cancel.
+			if c.twoSlips(win.base, rx, oldErr, *old, n) {
+				a = *old
+				break
+			}
 			commitBits(c.out, oldErr, win.base, 0, int64(n))
 			a = *old
 			break
 		}
 		s1, s2, lo, hi := cut(oldErr, newErr, n)
+		resume = after1(s2)
 		commitBits(c.out, oldErr, win.base, 0, int64(s1))
 		c.out.notCompared(win.base+int64(s1), int64(s2-s1), false)
 		c.out.slip(Slip{Bit: win.base + int64(s1), Lost: int64(s2 - s1), Shift: d, Known: known, Spread: int64(hi - lo),
 			Inverted: a.inv, Polarity: a.inv != old.inv, Regained: true})
-		commitBits(c.out, newErr, win.base, int64(s2), int64(n))
+		commitBits(c.out, newErr, win.base, int64(s2), int64(resume))
 	}
+	end = win.base + int64(resume)
 	// Resume following from end; bits of the window past it go back to the source.
 	c.gen = c.pat.expect(a, end)
 	c.locked = true
@@ -466,6 +493,82 @@ func (c *counter) lock(win *bitWindow, old *alignment, exp []uint64, a alignment
 	}
 	win.words, win.base, win.end = win.words[:0], 0, 0
 	return nil
+}
+
+// twoSlips looks, in a region where the alignment is the same at both ends, for two slips that
+// cancel (+d then −d, |d| ≤ 2, a clock that slipped and caught up): if a middle stretch fits
+// the alignment moved by d, not the old one, and so explains at least twoSlipGain more
+// errors, the region is committed that way with both slips, and it returns true. Two such
+// slips closer than a few hundred bits do not set off the search (too few errors between
+// them) and are counted as a burst of errors.
+func (c *counter) twoSlips(base int64, rx, oldErr []uint64, old alignment, n int) bool {
+	best, bestD, b1, b2 := 4*popcount(oldErr), int64(0), 0, 0
+	for _, d := range []int64{-2, -1, 1, 2} {
+		g := c.pat.expect(c.pat.moved(old, d), base)
+		mid := make([]uint64, len(rx))
+		for i := range mid {
+			mid[i] = rx[i] ^ g.next()
+		}
+		s1, s2, cost := cut3(oldErr, mid, n)
+		// the middle must fit the moved alignment (an error ratio below 1/16) and not the old
+		// one (above 1/4): a burst of errors favours some stretch by chance, never by that much
+		l, em, eo := s2-s1, countBits(mid, s1, s2), countBits(oldErr, s1, s2)
+		if cost+4*twoSlipGain <= best && 16*em <= l && 4*eo >= l {
+			best, bestD, b1, b2 = cost, d, s1, s2
+		}
+	}
+	if bestD == 0 {
+		return false
+	}
+	g := c.pat.expect(c.pat.moved(old, bestD), base)
+	mid := make([]uint64, len(rx))
+	for i := range mid {
+		mid[i] = rx[i] ^ g.next()
+	}
+	commitBits(c.out, oldErr, base, 0, int64(b1))
+	c.out.slip(Slip{Bit: base + int64(b1), Shift: bestD, Known: true, Inverted: old.inv, Regained: true})
+	commitBits(c.out, mid, base, int64(b1), int64(b2))
+	c.out.slip(Slip{Bit: base + int64(b2), Shift: -bestD, Known: true, Inverted: old.inv, Regained: true})
+	commitBits(c.out, oldErr, base, int64(b2), int64(n))
+	return true
+}
+
+// twoSlipGain is how many errors two cancelling slips must explain to be believed.
+const twoSlipGain = 8
+
+// cut3 splits [0, n) into old [0, s1), middle [s1, s2), old [s2, n) with the fewest errors
+// (in quarters, as cut), s1 < s2.
+func cut3(oldErr, midErr []uint64, n int) (s1, s2, cost int) {
+	bit := func(m []uint64, i int) int { return int(m[i>>6] >> uint(i&63) & 1) }
+	total := popcount(oldErr)
+	// cost(s1, s2) = 4·(O[s1] + M[s2] − M[s1] + total − O[s2]), O and M prefix counts
+	best := int(^uint(0) >> 1)
+	o, m := 0, 0
+	bestHead, bestI := 0, 0 // min over s1 < s2 of O[s1] − M[s1]
+	for j := 0; j <= n; j++ {
+		if j > 0 {
+			if c := 4 * (bestHead + m + total - o); c < best {
+				best, s1, s2 = c, bestI, j
+			}
+		}
+		if h := o - m; j == 0 || h < bestHead {
+			bestHead, bestI = h, j
+		}
+		if j < n {
+			o += bit(oldErr, j)
+			m += bit(midErr, j)
+		}
+	}
+	return s1, s2, best
+}
+
+// countBits is the number of ones among bits [from, to) of m.
+func countBits(m []uint64, from, to int) int {
+	n := 0
+	for i := from; i < to; i++ {
+		n += int(m[i>>6] >> uint(i&63) & 1)
+	}
+	return n
 }
 
 func xorWords(a, b []uint64) []uint64 {

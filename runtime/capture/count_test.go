@@ -58,3 +58,19 @@ func TestSlipsFoundWithoutSpuriousErrors(t *testing.T) {
 		}
 	}
 }
+
+// Two slips that cancel a few hundred bits apart (a clock that slipped and caught up): both
+// found, no errors left between them.
+func TestCancellingSlips(t *testing.T) {
+	for _, gap := range []int{400, 1000} {
+		b := prbsBits(t, 23, 200_000, false)
+		capt, at1, at2 := slipped(b, 100_000, 100_000+gap)
+		capt = capt[:199_992]
+		errs := randomErrors(capt, 1e-4, 3)
+		c := countBytes(t, pack(capt, false), Options{PRBS: 23})
+		if c.Errors != int64(len(errs)) || len(c.Slips) != 2 || c.Slips[0].Shift != 1 || c.Slips[1].Shift != -1 ||
+			abs64(c.Slips[0].Bit-int64(at1)) > 4 || abs64(c.Slips[1].Bit-int64(at2)) > 4 {
+			t.Errorf("gap %d: errors %d (injected %d), slips %+v (at %d and %d)", gap, c.Errors, len(errs), c.Slips, at1, at2)
+		}
+	}
+}

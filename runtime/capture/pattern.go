@@ -24,6 +24,8 @@ type pattern interface {
 	lockSpan() (before, after int64)
 	// expect returns a generator of the expected words from capture bit pos on.
 	expect(a alignment, pos int64) generator
+	// moved is a moved by d bits: capture bit p expects what a expects at p + d.
+	moved(a alignment, d int64) alignment
 	// shift is how many bits b lies ahead of a (b − a), judged at capture bit at; false when
 	// the two cannot be related within the search range.
 	shift(a, b alignment, at int64) (int64, bool)

@@ -157,6 +157,10 @@ func (p *prbs) expect(a alignment, pos int64) generator {
 	return g
 }
 
+func (p *prbs) moved(a alignment, d int64) alignment {
+	return alignment{inv: a.inv, pos: a.pos, state: p.at(a, a.pos+d)}
+}
+
 // maxShift bounds the slip a PRBS counter names in bits; a larger jump is reported as a loss
 // of alignment of unknown size.
 const maxShift = 4096

@@ -163,6 +163,11 @@ func (r *reference) expect(a alignment, pos int64) generator {
 	return g
 }
 
+func (r *reference) moved(a alignment, d int64) alignment {
+	a.off = mod(a.off+d, r.n)
+	return a
+}
+
 func (r *reference) shift(a, b alignment, _ int64) (int64, bool) {
 	return symmetric(b.off-a.off, r.n), true
 }

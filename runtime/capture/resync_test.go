@@ -88,3 +88,17 @@ func TestCut(t *testing.T) {
 		t.Errorf("a single error was given up as lost: %d %d", s1, s2)
 	}
 }
+
+// A long stretch of errors too dense for the lock check (BER 0.15 over 200 000 bits, longer
+// than the search window) but with the alignment unchanged is counted as errors: no slip, no
+// bit lost.
+func TestLongDenseStretchIsErrors(t *testing.T) {
+	b := prbsBits(t, 31, 600_000, true)
+	fade := b[200_000:400_000]
+	n := len(randomErrors(fade, 0.15, 6))
+	n += len(randomErrors(b[:200_000], 1e-4, 7))
+	k := countBytes(t, pack(b, false), Options{PRBS: 31})
+	if k.Errors != int64(n) || k.NSlips != 0 || k.Lost != 0 {
+		t.Errorf("errors %d (injected %d), slips %d, lost %d", k.Errors, n, k.NSlips, k.Lost)
+	}
+}
