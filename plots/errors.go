@@ -15,6 +15,7 @@ import (
 type ErrorTrace struct {
 	Title, Caption string
 	XLabel         string       // "time (s)" or "capture bit"
+	YLabel         string       // default "errors per interval"
 	From, To       []float64    // each interval's extent on the x axis
 	Errors         []int64      // errors in each interval
 	Lost           []bool       // the interval holds bits not compared
@@ -27,7 +28,11 @@ type ErrorTrace struct {
 // axis (an interval without errors has no bar), slips as dashed vertical lines labelled with
 // their shift, intervals with bits not compared marked at the top, unavailable time shaded.
 func Errors(t ErrorTrace) *Figure {
-	p := panel(nil, "errors per interval")
+	yl := t.YLabel
+	if yl == "" {
+		yl = "errors per interval"
+	}
+	p := panel(nil, yl)
 	p.X.Label.Text = t.XLabel
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for i := range t.From {

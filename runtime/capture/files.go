@@ -95,6 +95,9 @@ func trace(r *Report, c *Counts) plots.ErrorTrace {
 		Title:  "Errors in " + r.Capture,
 		XLabel: label,
 	}
+	if c.Rate > 0 && c.Interval == c.Rate {
+		t.YLabel = "errors per second"
+	}
 	parts := []string{r.Pattern + ", received " + r.Polarity,
 		fmt.Sprintf("%s errors in %s bits, BER %s", grouped(r.Errors), grouped(r.Bits), g3(r.BER)),
 		fmt.Sprintf("rows of %s bits", grouped(c.Interval))}
