@@ -212,10 +212,15 @@ func rowBits(size int64, f capture.Format) int64 {
 func explain(o capture.Options, err error) string {
 	var fe *capture.FormatError
 	var nl *capture.NoLockError
+	var re *capture.RefError
 	what := "the capture " + o.Name
 	switch {
-	case errors.As(err, &fe) && strings.HasPrefix(err.Error(), "reference"):
-		return fmt.Sprintf("the reference %s is not %s: %v; nothing written", o.RefName, o.Format, fe)
+	case errors.As(err, &re) && errors.As(err, &fe):
+		return fmt.Sprintf("the reference %s is not %s: at byte %d, %s; nothing written", o.RefName, o.Format, fe.Offset, fe.Msg)
+	case errors.As(err, &re) && errors.Is(err, capture.ErrEmpty):
+		return fmt.Sprintf("the reference %s is empty: it holds no bits; nothing written", o.RefName)
+	case errors.As(err, &re):
+		return fmt.Sprintf("the reference %s: %v; nothing written", o.RefName, re.Err)
 	case errors.As(err, &fe):
 		return fmt.Sprintf("%s is not %s: at byte %d, %s; nothing written", what, o.Format, fe.Offset, fe.Msg)
 	case errors.Is(err, capture.ErrEmpty):

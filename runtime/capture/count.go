@@ -52,37 +52,54 @@ type Slip struct {
 
 // Counts is what counting a capture found, before any statistics.
 type Counts struct {
-	Name     string
-	SHA256   string
-	Bytes    int64
-	Format   Format
-	LSB      bool
-	Pattern  string
-	PRBS     int
-	RefName  string
-	Offset   int64 // reference bit aligned with the capture's first bit at the first lock
-	Bits     int64 // capture bits
-	Compared int64
-	Errors   int64
-	Lost     int64 // bits not compared after the first lock
-	Before   int64 // bits before the first lock, not compared
-	LockBit  int64 // first bit compared
-	Inverted bool  // the pattern was received inverted at the first lock
-	Slips    []Slip
-	NSlips   int64
-	Rows     []Row
-	Interval int64 // bits a row (the last may be shorter)
-	Bursts   *bursts
-	Guard    int64
-	Window   int64
-	Thresh   int64
-	Rate     int64
-	Block    int64
-	G821     *G821
-	G826     *G826
-	Blocks   int64 // whole blocks (with a block size)
-	EBlocks  int64 // errored blocks among them
+	Name      string
+	SHA256    string
+	Bytes     int64
+	Format    Format
+	LSB       bool
+	Pattern   string
+	PRBS      int
+	RefName   string
+	RefSHA256 string
+	RefBits   int64
+	Offset    int64 // reference bit aligned with the capture's first bit at the first lock
+	Bits      int64 // capture bits
+	Compared  int64
+	Errors    int64
+	Lost      int64 // bits not compared after the first lock
+	Before    int64 // bits before the first lock, not compared
+	LockBit   int64 // first bit compared
+	Inverted  bool  // the pattern was received inverted at the first lock
+	Slips     []Slip
+	NSlips    int64
+	Rows      []Row
+	Interval  int64 // bits a row (the last may be shorter)
+	Bursts    *bursts
+	Guard     int64
+	Window    int64
+	Thresh    int64
+	Rate      int64
+	Block     int64
+	G821      *G821
+	G826      *G826
+	Blocks    int64 // whole blocks (with a block size)
+	EBlocks   int64 // errored blocks among them
 }
+
+// RefError is a reference file that cannot serve.
+type RefError struct {
+	Name string
+	Err  error
+}
+
+func (e *RefError) Error() string {
+	if errors.Is(e.Err, ErrEmpty) {
+		return fmt.Sprintf("reference %s: it holds no bits", e.Name)
+	}
+	return fmt.Sprintf("reference %s: %v", e.Name, e.Err)
+}
+
+func (e *RefError) Unwrap() error { return e.Err }
 
 // ErrEmpty and ErrNoLock are the two ways a capture can hold nothing to count.
 var (
@@ -128,11 +145,14 @@ func Count(in io.Reader, o Options) (*Counts, error) {
 	res := &Counts{Name: o.Name, Format: o.Format, LSB: o.LSB, PRBS: o.PRBS, RefName: o.RefName, Guard: o.Guard,
 		Window: o.Window, Thresh: o.Threshold, Rate: o.Rate, Block: o.Block}
 	if o.Ref != nil {
-		ref, err := readReference(o.RefName, o.Ref, o.Format, o.LSB)
+		rh := sha256.New()
+		ref, err := readReference(o.RefName, io.TeeReader(o.Ref, rh), o.Format, o.LSB)
 		if err != nil {
-			return nil, fmt.Errorf("reference %s: %w", o.RefName, err)
+			return nil, &RefError{Name: o.RefName, Err: err}
 		}
 		pat = ref
+		res.RefSHA256 = hex.EncodeToString(rh.Sum(nil))
+		res.RefBits = ref.n
 	} else {
 		p, err := newPRBS(o.PRBS)
 		if err != nil {
@@ -146,7 +166,8 @@ func Count(in io.Reader, o Options) (*Counts, error) {
 	c := newCounter(pat, rd, o)
 	if err := c.run(); err != nil {
 		var fe *FormatError
-		if errors.As(err, &fe) || errors.Is(err, ErrNoLock) || errors.Is(err, ErrEmpty) {
+		var re *RefError
+		if errors.As(err, &fe) || errors.As(err, &re) || errors.Is(err, ErrNoLock) || errors.Is(err, ErrEmpty) {
 			return nil, err
 		}
 		return nil, fmt.Errorf("reading the capture: %w", err)

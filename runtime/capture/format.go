@@ -220,9 +220,9 @@ func (r *bitReader) push(v, width int) {
 
 func (r *bitReader) expected() string {
 	if r.format == ASCII {
-		return "0, 1 or white space (is the capture ascii?)"
+		return "0, 1 or white space (is the file ascii?)"
 	}
-	return "a hexadecimal digit or white space (is the capture hex?)"
+	return "a hexadecimal digit or white space (is the file hex?)"
 }
 
 func describeByte(c byte) string {

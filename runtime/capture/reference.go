@@ -41,11 +41,11 @@ func readReference(name string, in io.Reader, f Format, lsb bool) (*reference, e
 		words = append(words, chunk[:(nb+63)/64]...)
 		n += nb
 		if n > maxRefBits {
-			return nil, fmt.Errorf("the reference holds more than %d bits", int64(maxRefBits))
+			return nil, fmt.Errorf("it holds more than %d bits (1 MiB packed), the most a reference may", int64(maxRefBits))
 		}
 	}
 	if n == 0 {
-		return nil, &FormatError{0, "the reference is empty"}
+		return nil, ErrEmpty
 	}
 	need := n + 192
 	ext := make([]uint64, (need+63)/64)

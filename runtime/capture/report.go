@@ -19,6 +19,8 @@ type Report struct {
 	Pattern     string  `json:"pattern"`
 	PRBS        int     `json:"prbs,omitempty"`
 	Reference   string  `json:"reference,omitempty"`
+	RefSHA256   string  `json:"reference_sha256,omitempty"`
+	RefBits     int64   `json:"reference_bits,omitempty"`
 	Offset      *int64  `json:"reference_offset,omitempty"` // reference bit under the capture's first bit
 	Polarity    string  `json:"polarity"`
 	CaptureBits int64   `json:"capture_bits"`
@@ -108,7 +110,7 @@ func Analyse(c *Counts, confidence float64, method string, spec float64) (*Repor
 		return nil, err
 	}
 	r := &Report{Capture: c.Name, SHA256: c.SHA256, Bytes: c.Bytes, Format: c.Format.String(), BitOrder: "msb-first",
-		Pattern: c.Pattern, PRBS: c.PRBS, Reference: c.RefName, Polarity: "normal", CaptureBits: c.Bits,
+		Pattern: c.Pattern, PRBS: c.PRBS, Reference: c.RefName, RefSHA256: c.RefSHA256, RefBits: c.RefBits, Polarity: "normal", CaptureBits: c.Bits,
 		LockBit: c.LockBit, Bits: c.Compared, Errors: c.Errors, Confidence: confidence, Spec: spec,
 		Slips: c.NSlips, LostBits: c.Lost, BeforeLock: c.Before, SlipList: c.Slips, Window: c.Window,
 		Threshold: c.Thresh, Rate: c.Rate, Interval: c.Interval}
