@@ -81,7 +81,7 @@ func getCyclic(words []uint64, n, j int64) uint64 {
 }
 
 func (r *reference) describe() string {
-	return fmt.Sprintf("reference %s (%d bits, repeated)", r.name, r.n)
+	return fmt.Sprintf("reference %s (%s bits, repeated)", r.name, grouped(r.n))
 }
 
 // at64 is the 64 reference bits from j on, 0 ≤ j < L.

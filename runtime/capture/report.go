@@ -202,6 +202,12 @@ func verdict(r *Report, spec float64) string {
 	case r.Lower > spec:
 		return fmt.Sprintf("fails the specification: BER > %s with %s confidence (one-sided lower limit %s)", g3(spec), conf, g3(r.Lower))
 	}
+	if r.Errors == 0 {
+		// n error-free bits show BER ≤ spec when 1 − (1−C)^(1/n) ≤ spec
+		need := math.Ceil(math.Log1p(-r.Confidence) / math.Log1p(-spec))
+		return fmt.Sprintf("not decided: no errors in %s bits show only BER ≤ %s at %s; %s error-free bits would show BER ≤ %s",
+			grouped(r.Bits), g3(r.Upper), conf, grouped(int64(need)), g3(spec))
+	}
 	return fmt.Sprintf("not decided: the capture allows a BER from %s to %s (one-sided %s limits), on both sides of %s; a longer capture decides",
 		g3(r.Lower), g3(r.Upper), conf, g3(spec))
 }
