@@ -88,3 +88,79 @@ func popcount(m []uint64) int {
 	}
 	return n
 }
+
+// twoSlips looks, in a region where the alignment is the same at both ends, for two slips that
+// cancel (+d then −d, |d| ≤ 2, a clock that slipped and caught up): if a middle stretch fits
+// the alignment moved by d, not the old one, and so explains at least twoSlipGain more
+// errors, the region is committed that way with both slips, and it returns true. Two such
+// slips closer than a few hundred bits do not set off the search (too few errors between
+// them) and are counted as a burst of errors.
+func (c *counter) twoSlips(base int64, rx, oldErr []uint64, old alignment, n int) bool {
+	best, bestD, b1, b2 := 4*popcount(oldErr), int64(0), 0, 0
+	for _, d := range []int64{-2, -1, 1, 2} {
+		g := c.pat.expect(c.pat.moved(old, d), base)
+		mid := make([]uint64, len(rx))
+		for i := range mid {
+			mid[i] = rx[i] ^ g.next()
+		}
+		s1, s2, cost := cut3(oldErr, mid, n)
+		// the middle must fit the moved alignment (an error ratio below 1/16) and not the old
+		// one (above 1/4): a burst of errors favours some stretch by chance, never by that much
+		l, em, eo := s2-s1, countBits(mid, s1, s2), countBits(oldErr, s1, s2)
+		if cost+4*twoSlipGain <= best && 16*em <= l && 4*eo >= l {
+			best, bestD, b1, b2 = cost, d, s1, s2
+		}
+	}
+	if bestD == 0 {
+		return false
+	}
+	g := c.pat.expect(c.pat.moved(old, bestD), base)
+	mid := make([]uint64, len(rx))
+	for i := range mid {
+		mid[i] = rx[i] ^ g.next()
+	}
+	commitBits(c.out, oldErr, base, 0, int64(b1))
+	c.out.slip(Slip{Bit: base + int64(b1), Shift: bestD, Known: true, Inverted: old.inv, Regained: true})
+	commitBits(c.out, mid, base, int64(b1), int64(b2))
+	c.out.slip(Slip{Bit: base + int64(b2), Shift: -bestD, Known: true, Inverted: old.inv, Regained: true})
+	commitBits(c.out, oldErr, base, int64(b2), int64(n))
+	return true
+}
+
+// twoSlipGain is how many errors two cancelling slips must explain to be believed.
+const twoSlipGain = 8
+
+// cut3 splits [0, n) into old [0, s1), middle [s1, s2), old [s2, n) with the fewest errors
+// (in quarters, as cut), s1 < s2.
+func cut3(oldErr, midErr []uint64, n int) (s1, s2, cost int) {
+	bit := func(m []uint64, i int) int { return int(m[i>>6] >> uint(i&63) & 1) }
+	total := popcount(oldErr)
+	// cost(s1, s2) = 4·(O[s1] + M[s2] − M[s1] + total − O[s2]), O and M prefix counts
+	best := int(^uint(0) >> 1)
+	o, m := 0, 0
+	bestHead, bestI := 0, 0 // min over s1 < s2 of O[s1] − M[s1]
+	for j := 0; j <= n; j++ {
+		if j > 0 {
+			if c := 4 * (bestHead + m + total - o); c < best {
+				best, s1, s2 = c, bestI, j
+			}
+		}
+		if h := o - m; j == 0 || h < bestHead {
+			bestHead, bestI = h, j
+		}
+		if j < n {
+			o += bit(oldErr, j)
+			m += bit(midErr, j)
+		}
+	}
+	return s1, s2, best
+}
+
+// countBits is the number of ones among bits [from, to) of m.
+func countBits(m []uint64, from, to int) int {
+	n := 0
+	for i := from; i < to; i++ {
+		n += int(m[i>>6] >> uint(i&63) & 1)
+	}
+	return n
+}
