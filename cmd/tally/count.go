@@ -146,6 +146,13 @@ func countCmd(args []string, stdout, stderr io.Writer) int {
 	c, err := capture.Count(in, o)
 	if err != nil {
 		fmt.Fprintf(stderr, "tally count: %s\n", explain(o, err))
+		if errors.Is(err, capture.ErrNoLock) && name != "-" && *ref == "" {
+			if head, rerr := readHead(name); rerr == nil {
+				if g := capture.Guess(head, f); g != "" {
+					fmt.Fprintf(stderr, "tally count: %s\n", g)
+				}
+			}
+		}
 		return 1
 	}
 	r, err := capture.Analyse(c, *conf, *method, *spec)
@@ -177,6 +184,21 @@ func countCmd(args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stdout, "wrote %s\n", *dir)
 	}
 	return 0
+}
+
+// readHead is the first 64 KiB of a file.
+func readHead(name string) ([]byte, error) {
+	fh, err := os.Open(name)
+	if err != nil {
+		return nil, err
+	}
+	defer fh.Close()
+	b := make([]byte, 1<<16)
+	n, err := io.ReadFull(fh, b)
+	if err != nil && err != io.ErrUnexpectedEOF {
+		return nil, err
+	}
+	return b[:n], nil
 }
 
 func validOrder(n int) bool {

@@ -73,7 +73,7 @@ func TestCountCommand(t *testing.T) {
 	}{
 		{[]string{"-format", "ascii", text}, "at byte 502"},
 		{[]string{"-prbs", "9", clean}, "text of 0 and 1 characters"},
-		{[]string{"-prbs", "31", "-o", out, capt}, "never locks"},
+		{[]string{"-prbs", "31", "-o", out, capt}, "lock with -prbs 23"},
 		{[]string{"-o", out, empty}, "is empty"},
 	} {
 		args := append([]string{"count", "-prbs", "23"}, c.args...)

@@ -78,3 +78,14 @@ func TestBadCaptures(t *testing.T) {
 		}
 	}
 }
+
+// A capture that does not lock as declared gets the settings it locks with.
+func TestGuess(t *testing.T) {
+	b := pack(prbsBits(t, 20, 80_000, false), true)
+	if g := Guess(b, Binary); g != "its first 10000 bytes lock with -prbs 20 -lsb" {
+		t.Errorf("guess %q", g)
+	}
+	if g := Guess(make([]byte, 1000), Binary); g != "" {
+		t.Errorf("zeros: guess %q", g)
+	}
+}
