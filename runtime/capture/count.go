@@ -252,6 +252,8 @@ func (c *counter) hunt(win *bitWindow, old *alignment, exp []uint64) (done bool,
 					old, exp = nil, nil
 				} else {
 					exp = exp[:0]
+					here := oldGen.here() // the old alignment, at the window's new start
+					old = &here
 				}
 			} else {
 				c.out.notCompared(win.base, keep-win.base, !c.ever)
