@@ -43,6 +43,12 @@ func Write(dir string, r *result.Run) error {
 	if err != nil {
 		return err
 	}
+	return WriteFiles(dir, files)
+}
+
+// WriteFiles puts files into dir as Write does: each written in full beside its target, then
+// all renamed into place, none when any could not be written.
+func WriteFiles(dir string, files []File) error {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return err
 	}
