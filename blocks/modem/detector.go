@@ -165,6 +165,9 @@ func (d *Detector) Process(f *link.Frame, r *rng.Stream) error {
 	if soft {
 		f.LLR = d.llr
 	}
+	if f.Estimator == link.SemiAnalytic && m.kind == kindAxis {
+		return d.flips(f, y)
+	}
 	return nil
 }
 

@@ -30,14 +30,18 @@ func init() {
 		"Jeffreys":        reflect.ValueOf(stats.Jeffreys),
 		"MethodNamed":     reflect.ValueOf(stats.MethodNamed),
 		"Methods":         reflect.ValueOf(&stats.Methods).Elem(),
+		"MinEffective":    reflect.ValueOf(constant.MakeFromLiteral("50", token.INT, 0)),
+		"MinFrames":       reflect.ValueOf(constant.MakeFromLiteral("10", token.INT, 0)),
 		"Penalty":         reflect.ValueOf(stats.Penalty),
 		"StagewiseMethod": reflect.ValueOf(constant.MakeFromLiteral("\"stagewise\"", token.STRING, 0)),
+		"Weighted":        reflect.ValueOf(stats.Weighted),
 		"Wilson":          reflect.ValueOf(stats.Wilson),
 
 		// type definitions
-		"Crossing": reflect.ValueOf((*stats.Crossing)(nil)),
-		"Estimate": reflect.ValueOf((*stats.Estimate)(nil)),
-		"Loss":     reflect.ValueOf((*stats.Loss)(nil)),
-		"Method":   reflect.ValueOf((*stats.Method)(nil)),
+		"Crossing":         reflect.ValueOf((*stats.Crossing)(nil)),
+		"Estimate":         reflect.ValueOf((*stats.Estimate)(nil)),
+		"Loss":             reflect.ValueOf((*stats.Loss)(nil)),
+		"Method":           reflect.ValueOf((*stats.Method)(nil)),
+		"WeightedEstimate": reflect.ValueOf((*stats.WeightedEstimate)(nil)),
 	}
 }

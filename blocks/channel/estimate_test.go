@@ -1,0 +1,177 @@
+package channel_test
+
+import (
+	"math"
+	"strings"
+	"testing"
+
+	"tally/blocks/channel"
+	"tally/blocks/link"
+	"tally/blocks/modem"
+	"tally/blocks/source"
+	"tally/blocks/stats"
+	"tally/blocks/theory"
+)
+
+// runTally runs frames frames of point 0 of l with seed and returns the BER tap's sum.
+func runTally(t testing.TB, l *link.Link, seed uint64, frames int) link.Tally {
+	t.Helper()
+	var f link.Frame
+	var sum link.Tally
+	c := make([]link.Tally, len(l.Taps()))
+	for i := range frames {
+		clear(c)
+		if err := l.Run(&f, seed, 0, i, c); err != nil {
+			t.Fatal(err)
+		}
+		sum.Add(c[0])
+	}
+	return sum
+}
+
+// ebn0For is the Eb/N0 (dB) at which ber(ebn0) = p, by bisection on a decreasing curve.
+func ebn0For(ber func(float64) float64, p float64) float64 {
+	lo, hi := -5.0, 30.0
+	for range 100 {
+		m := (lo + hi) / 2
+		if ber(m) > p {
+			lo = m
+		} else {
+			hi = m
+		}
+	}
+	return (lo + hi) / 2
+}
+
+// The issue's targets: BPSK/AWGN at 1e-9 and 1e-12 and Gray 16-QAM/AWGN at 1e-9, by importance
+// sampling, within ±20 % of theory at 95 % confidence with far fewer than 1e8 symbols (here
+// 1e5 or less). Theory: BPSK Q(√(2Eb/N0)) (Proakis, Digital Communications, 5th ed., 2008,
+// eq. 4.3-13); 16-QAM the exact Gray BER of Cho and Yoon, "On the general BER expression of
+// one- and two-dimensional amplitude modulations", IEEE Trans. Commun., 2002 (theory.QAM).
+func TestImportanceAgainstTheory(t *testing.T) {
+	cases := []struct {
+		name   string
+		m      *modem.Modem
+		ber    func(float64) float64
+		target float64
+		frames int
+	}{
+		{"BPSK 1e-9", modem.BPSK(), theory.BPSK, 1e-9, 50},
+		{"BPSK 1e-12", modem.BPSK(), theory.BPSK, 1e-12, 50},
+		{"16-QAM 1e-9", modem.QAM(16), func(x float64) float64 { return theory.QAM(16, x) }, 1e-9, 50},
+	}
+	for _, c := range cases {
+		db := ebn0For(c.ber, c.target)
+		want := c.ber(db)
+		l := link.Chain(source.Random(1024*c.m.Bits), c.m.Mod(), channel.AWGN(db), c.m.Demod()).Estimate("importance")
+		tl := runTally(t, l, 7, c.frames)
+		e, err := stats.Weighted(tl, 0.95)
+		if err != nil {
+			t.Fatal(err)
+		}
+		t.Logf("%s: Eb/N0 %.3f dB, %d symbols: %.4g [%.4g, %.4g], theory %.4g, effective %.0f", c.name, db,
+			tl.Trials/int64(c.m.Bits), e.Rate, e.Low, e.High, want, e.Effective)
+		if e.Degenerate || !e.Contains(want) || e.Low < 0.8*want || e.High > 1.2*want {
+			t.Errorf("%s: interval [%.4g, %.4g] (degenerate %v) not within ±20 %% around theory %.4g", c.name, e.Low, e.High, e.Degenerate, want)
+		}
+		if !strings.HasPrefix(e.Method, "importance-sampling") {
+			t.Errorf("method %q", e.Method)
+		}
+	}
+}
+
+// The semi-analytic estimator on AWGN links reproduces the closed forms: for BPSK every
+// decision's tail is Q(√(2Eb/N0)) exactly (Proakis, eq. 4.3-13); for Gray 16-QAM the data
+// average of the per-symbol tails converges to Cho and Yoon's exact BER (IEEE Trans. Commun.,
+// 2002), within the estimator's interval.
+func TestSemiAnalyticAgainstTheory(t *testing.T) {
+	for _, db := range []float64{4, 10, 14} {
+		l := link.Chain(source.Random(1024), modem.BPSK().Mod(), channel.AWGN(db), modem.BPSK().Demod()).Estimate("semi-analytic")
+		e, err := stats.Weighted(runTally(t, l, 1, 10), 0.95)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if want := theory.BPSK(db); math.Abs(e.Rate-want) > 1e-9*want {
+			t.Errorf("BPSK %v dB: %.10g, want %.10g", db, e.Rate, want)
+		}
+	}
+	m := modem.QAM(16)
+	for _, db := range []float64{6, 12, 16} {
+		l := link.Chain(source.Random(4096), m.Mod(), channel.AWGN(db), m.Demod()).Estimate("semi-analytic")
+		e, err := stats.Weighted(runTally(t, l, 1, 40), 0.99)
+		if err != nil {
+			t.Fatal(err)
+		}
+		want := theory.QAM(16, db)
+		t.Logf("16-QAM %v dB: %.5g [%.5g, %.5g], theory %.5g", db, e.Rate, e.Low, e.High, want)
+		if !e.Contains(want) || e.High-e.Low > 0.1*want {
+			t.Errorf("16-QAM %v dB: [%.5g, %.5g] misses theory %.5g or is wider than 10 %%", db, e.Low, e.High, want)
+		}
+	}
+}
+
+// Coverage of the importance-sampling 95 % interval at a known BER: 500 replications of 16-QAM
+// at the Eb/N0 where Cho and Yoon's exact BER (IEEE Trans. Commun., 2002) is 1e-6, each of 20
+// frames of 256 symbols (different seeds). A valid 95 % interval covers the truth in about 95 %
+// of replications; the issue asks for at least 0.93 (the README reports the figure).
+func TestImportanceCoverage(t *testing.T) {
+	if testing.Short() {
+		t.Skip("500 replications")
+	}
+	m := modem.QAM(16)
+	ber := func(x float64) float64 { return theory.QAM(16, x) }
+	db := ebn0For(ber, 1e-6)
+	want := ber(db)
+	l := link.Chain(source.Random(1024), m.Mod(), channel.AWGN(db), m.Demod()).Estimate("importance")
+	const reps = 500
+	covered, degenerate := 0, 0
+	for s := range reps {
+		e, err := stats.Weighted(runTally(t, l, uint64(1000+s), 20), 0.95)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if e.Contains(want) {
+			covered++
+		}
+		if e.Degenerate {
+			degenerate++
+		}
+	}
+	cov := float64(covered) / reps
+	t.Logf("coverage %d/%d = %.3f (%d degenerate)", covered, reps, cov, degenerate)
+	if cov < 0.93 {
+		t.Errorf("coverage %.3f below 0.93", cov)
+	}
+}
+
+// A link with no closed form, QPSK through a two-tap ISI channel (h = [1, 0.25], scaled to
+// unit energy): importance sampling and the semi-analytic estimator agree with plain Monte
+// Carlo within the intervals at Eb/N0 11 dB (BER near 1e-4), then both reach far lower rates,
+// where they agree with each other. (Method of comparison: common practice, no source.)
+func TestEstimatorsAgainstMonteCarloISI(t *testing.T) {
+	m := modem.QPSK()
+	build := func(db float64) *link.Link {
+		return link.Chain(source.Random(4096), m.Mod(), channel.Multipath([]complex128{1, 0.25}), channel.AWGN(db), m.Demod())
+	}
+	db := 11.0
+	mc := runTally(t, build(db), 3, 1200)
+	plain, err := stats.ClopperPearson(mc.Errors, mc.Trials, 0.99)
+	if err != nil {
+		t.Fatal(err)
+	}
+	is, _ := stats.Weighted(runTally(t, build(db).Estimate("importance"), 3, 100), 0.99)
+	sa, _ := stats.Weighted(runTally(t, build(db).Estimate("semi-analytic"), 3, 100), 0.99)
+	t.Logf("11 dB: count %.4g [%.4g, %.4g] (%d errors); importance %.4g [%.4g, %.4g]; semi-analytic %.4g [%.4g, %.4g]",
+		plain.Rate, plain.Low, plain.High, mc.Errors, is.Rate, is.Low, is.High, sa.Rate, sa.Low, sa.High)
+	overlap := func(a, b stats.Estimate) bool { return a.Low <= b.High && b.Low <= a.High }
+	if !overlap(plain, is.Estimate) || !overlap(plain, sa.Estimate) {
+		t.Errorf("11 dB: the estimators disagree with plain Monte Carlo")
+	}
+	db = 17
+	is, _ = stats.Weighted(runTally(t, build(db).Estimate("importance"), 5, 100), 0.99)
+	sa, _ = stats.Weighted(runTally(t, build(db).Estimate("semi-analytic"), 5, 100), 0.99)
+	t.Logf("17 dB: importance %.4g [%.4g, %.4g] (effective %.0f); semi-analytic %.4g [%.4g, %.4g]", is.Rate, is.Low, is.High, is.Effective, sa.Rate, sa.Low, sa.High)
+	if !(sa.Rate < 1e-11) || !overlap(is.Estimate, sa.Estimate) || is.Degenerate {
+		t.Errorf("17 dB: importance sampling and semi-analytic disagree")
+	}
+}
