@@ -75,3 +75,32 @@ func Weighted(t link.Tally, confidence float64) (WeightedEstimate, error) {
 	w.Degenerate = w.Effective < MinEffective
 	return w, nil
 }
+
+// EquivalentErrors is the number of errors a plain count would need for the relative
+// standard error of the weighted tally's estimate: a count of k errors has relative standard
+// error about 1/√k (Poisson), so k = (p̂/se)² with se as in Weighted. It is 0 while the
+// estimate cannot be judged (fewer than MinFrames frames, no weight, degenerated weights) and
+// +Inf when the frames do not vary (a semi-analytic estimate of a link without randomness
+// before the noise but the data, whose frames all give the same sum).
+func EquivalentErrors(t link.Tally) float64 {
+	if t.Frames < MinFrames || !(t.Weight > 0) || t.WeightSquares <= 0 || t.Weight*t.Weight/t.WeightSquares < MinEffective {
+		return 0
+	}
+	F := float64(t.Frames)
+	s2 := math.Max(0, (t.FrameWeights-t.Weight*t.Weight/F)/(F-1))
+	if s2 <= 1e-12*t.Weight*t.Weight/(F*F) { // rounding of equal frame sums
+		return math.Inf(1)
+	}
+	// p̂/se = (W/n) / (√(s²/F)·F/n) = W/√(s²·F).
+	return t.Weight * t.Weight / (s2 * F)
+}
+
+// PlainBits is how many bits plain counting would need to reach the precision of a weighted
+// tally at its estimated rate: EquivalentErrors / p̂ (0 when either is not known).
+func PlainBits(t link.Tally) float64 {
+	k := EquivalentErrors(t)
+	if k == 0 || math.IsInf(k, 1) || !(t.Weight > 0) {
+		return 0
+	}
+	return k * float64(t.Trials) / t.Weight
+}

@@ -72,6 +72,7 @@ func Summary(r *result.Run, files []string) []byte {
 		fmt.Fprintf(&b, "\nErrors came in bursts at %s. Those intervals are widened by the spread of errors between frames, since intervals for independent errors would be too narrow.\n",
 			strings.Join(bursty, "; "))
 	}
+	estimatorSummary(&b, r)
 	if len(r.Taps) > 1 {
 		b.WriteString("\nOther taps (frame error rate, pre-decoder BER, the script's own counts) are in `table.csv`.\n")
 	}

@@ -36,6 +36,7 @@ type Experiment struct {
 	confidence float64
 	method     string
 	seed       uint64
+	estimator  link.Estimator // for every point's link (estimate.go)
 	opts       *Options
 }
 

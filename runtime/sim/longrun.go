@@ -224,7 +224,7 @@ func (l *longRun) checkpoint(pt Point, spec engine.Spec, run runner) (engine.Out
 				return engine.Outcome{}, fmt.Errorf("resume: point %d of %s has values %v, the sweep %v; run with -restart", pt.Index+1, l.path, ps.Values, pt.Values)
 			}
 			before = time.Duration(ps.Seconds * float64(time.Second))
-			counts = longrun.Unpack(ps.Counts)
+			counts = ps.Tallies()
 			spec.Start = &engine.State{Frames: ps.Frames, Counts: append([]link.Tally(nil), counts...), Elapsed: before}
 			cur.Frames = ps.Frames
 		}
@@ -242,7 +242,7 @@ func (l *longRun) checkpoint(pt Point, spec engine.Spec, run runner) (engine.Out
 		}
 		cur.Frames++
 		if l.due() {
-			cur.Counts = longrun.Pack(counts)
+			cur.SetTallies(counts)
 			cur.Seconds = (before + time.Since(start)).Seconds()
 			l.ck.Set(cur)
 			l.save(longrun.KindCheckpoint, l.ck)
@@ -252,7 +252,8 @@ func (l *longRun) checkpoint(pt Point, spec engine.Spec, run runner) (engine.Out
 	if err != nil {
 		return out, err
 	}
-	cur.Frames, cur.Counts, cur.Seconds = out.Frames, longrun.Pack(out.Counts), out.Elapsed.Seconds()
+	cur.Frames, cur.Seconds = out.Frames, out.Elapsed.Seconds()
+	cur.SetTallies(out.Counts)
 	if out.Stop != engine.Interrupted {
 		cur.Stop = out.Stop
 	}
