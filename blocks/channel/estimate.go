@@ -21,6 +21,7 @@ func (c *WhiteNoise) Nature() link.Kind { return link.GaussianNoise }
 type biasing struct {
 	noise  []float64
 	signs  []byte
+	weight []float64
 	points []complex128 // the constellation the automatic shift was found for
 	half   float64      // its half minimum distance
 }
@@ -57,7 +58,8 @@ func (c *WhiteNoise) biased(f *link.Frame, r *rng.Stream, sigma float64) error {
 	}
 	n := len(f.Samples)
 	b := &c.bias
-	f.Weight = link.GrowFloats(f.Weight, n)
+	b.weight = link.GrowFloats(b.weight, n)
+	f.Weight = b.weight
 	k := d / (sigma * sigma)
 	h := d * k / 2 // d²/2σ²
 	if f.Real {

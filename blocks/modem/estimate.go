@@ -54,7 +54,8 @@ func (d *Detector) flips(f *link.Frame, y []complex128) error {
 	m := d.m
 	a := &m.axis
 	k, h := m.Bits, a.bits
-	f.Flip = link.GrowFloats(f.Flip, len(y)*k)
+	d.flip = link.GrowFloats(d.flip, len(y)*k)
+	f.Flip = d.flip
 	s := math.Sqrt(f.NoiseVar)
 	for i, v := range y {
 		a.flips(real(v), s, f.Flip[i*k:i*k+h])
