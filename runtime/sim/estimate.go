@@ -2,6 +2,7 @@ package sim
 
 import (
 	"fmt"
+	"strings"
 
 	"tally/blocks/link"
 	"tally/blocks/stats"
@@ -11,23 +12,40 @@ import (
 // Estimate sets how every point's link estimates its BER: "count" (plain Monte Carlo, the
 // default), "importance" (importance sampling) or "semi-analytic"; see link.Estimator. A link
 // refused by the estimator stops the script with the block that breaks its assumptions named.
-// A link that chose its own estimator (link.Link.Estimate) keeps it, so a script can switch
-// per point:
+// "auto" picks per link: semi-analytic where its assumptions hold (it is exact), else
+// importance sampling, else counting. A link that chose its own estimator
+// (link.Link.Estimate) keeps it, so a script can also switch per point:
 //
 //	x.Estimate("importance")
-//	x.Stop(stop.Precision(1.2), stop.Bits(1e8))
+//	x.Stop(stop.Errors(100), stop.Bits(1e8))   // Errors: the precision of 100 counted errors
 func (x *Experiment) Estimate(method string) *Experiment {
+	if strings.EqualFold(strings.TrimSpace(method), "auto") {
+		x.estimator, x.autoEstimate = link.Count, true
+		return x
+	}
 	e, err := link.EstimatorNamed(method)
 	if err != nil {
-		fail(fmt.Errorf("sim.Estimate: %w", err))
+		fail(fmt.Errorf("sim.Estimate: %w (or auto)", err))
 	}
-	x.estimator = e
+	x.estimator, x.autoEstimate = e, false
 	return x
 }
 
 // estimateOn gives a freshly built link the experiment's estimator, unless it chose one.
 func (x *Experiment) estimateOn(l *link.Link) {
-	if x.estimator != link.Count && l.Estimator() == link.Count {
+	if l.Estimator() != link.Count {
+		return
+	}
+	if x.autoEstimate {
+		for _, e := range []link.Estimator{link.SemiAnalytic, link.Importance} {
+			if l.CheckEstimator(e) == nil {
+				l.Estimate(e.String())
+				return
+			}
+		}
+		return
+	}
+	if x.estimator != link.Count {
 		l.Estimate(x.estimator.String())
 	}
 }

@@ -25,19 +25,20 @@ import (
 
 // Experiment is one experiment: its sweep, link, rules and curves.
 type Experiment struct {
-	name       string
-	params     []param
-	build      func(p Point) *link.Link
-	rules      []stop.Rule
-	sweepRules []stop.SweepRule
-	scatterAt  []float64
-	theory     []curve
-	targets    []target
-	confidence float64
-	method     string
-	seed       uint64
-	estimator  link.Estimator // for every point's link (estimate.go)
-	opts       *Options
+	name         string
+	params       []param
+	build        func(p Point) *link.Link
+	rules        []stop.Rule
+	sweepRules   []stop.SweepRule
+	scatterAt    []float64
+	theory       []curve
+	targets      []target
+	confidence   float64
+	method       string
+	seed         uint64
+	estimator    link.Estimator // for every point's link (estimate.go)
+	autoEstimate bool           // pick per link (estimate.go)
+	opts         *Options
 }
 
 type param struct {
