@@ -1,6 +1,7 @@
 package sim
 
 import (
+	"strings"
 	"testing"
 
 	"tally/blocks/channel"
@@ -9,6 +10,7 @@ import (
 	"tally/blocks/noise"
 	"tally/blocks/pulse"
 	"tally/blocks/source"
+	"tally/blocks/stop"
 )
 
 // "auto" gives each link the exact semi-analytic estimator where its assumptions hold,
@@ -41,5 +43,26 @@ func TestEstimateAuto(t *testing.T) {
 	x.estimateOn(l)
 	if l.Estimator() != link.Importance {
 		t.Errorf("explicit importance: %s", l.Estimator())
+	}
+}
+
+// Under an estimator, rules that could never be met are refused before the run.
+func TestEstimateRefusesRules(t *testing.T) {
+	q := modem.QAM(16)
+	for _, r := range []stop.Rule{stop.Errors(10).Tap(link.TapFER), stop.Below(1e-9), stop.Above(1e-3)} {
+		x := &Experiment{rules: []stop.Rule{r, stop.Bits(1e6)}}
+		x.Estimate("importance")
+		err := func() (err error) {
+			defer func() {
+				if v := recover(); v != nil {
+					err, _ = v.(error)
+				}
+			}()
+			x.estimateOn(link.Chain(source.Random(64), q.Mod(), channel.AWGN(10), q.Demod()))
+			return nil
+		}()
+		if err == nil || !strings.Contains(err.Error(), "cannot be judged") {
+			t.Errorf("%s: %v", r.Name(), err)
+		}
 	}
 }
