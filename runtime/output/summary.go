@@ -16,6 +16,9 @@ func Summary(r *result.Run, files []string) []byte {
 	fmt.Fprintf(&b, "# %s\n\n", r.Name)
 	fmt.Fprintf(&b, "Results of `%s` (script SHA-256 `%.12s…`), seed %d, %s intervals at %g %% confidence.",
 		r.Script, r.ScriptSHA256, r.Seed, r.Method, 100*r.Confidence)
+	if Weighted(r) {
+		b.WriteString(" Points estimated by importance sampling or semi-analytically use their estimator's interval (see Estimators).")
+	}
 	if r.Interrupted {
 		b.WriteString(" **The run was interrupted**: the last point is incomplete.")
 	}
