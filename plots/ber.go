@@ -100,6 +100,9 @@ func BER(r *result.Run) (*Figure, error) {
 		s.boundSty = draw.GlyphStyle{Color: cl, Radius: vg.Points(3), Shape: downTriangle{}}
 		left.Add(s)
 		ys = append(ys, s.extent()...)
+		if m := estimatorMarks(c.points, ber, cl); m != nil {
+			left.Add(m)
+		}
 		name := "simulated BER"
 		if many {
 			name = c.label
@@ -158,6 +161,7 @@ func BER(r *result.Run) (*Figure, error) {
 				glyph: draw.GlyphStyle{Color: theoryCl, Radius: vg.Points(2.4), Shape: ring{}}})
 		}
 	}
+	addEstimatorKeys(legend, r, ber)
 	if hasBound(r) {
 		legend.Add("no errors: "+confidence+" upper bound", boundKey{draw.GlyphStyle{Color: theoryCl, Radius: vg.Points(3), Shape: downTriangle{}}})
 	}
@@ -195,7 +199,7 @@ func theoryColour(ci int, many bool) color.Color {
 func hasBound(r *result.Run) bool {
 	for _, p := range r.Points {
 		for _, t := range p.Taps {
-			if t.Trials > 0 && t.Errors == 0 && (t.Name == link.TapBER || t.Name == link.TapPre) {
+			if t.Trials > 0 && t.Errors == 0 && !t.Weighted() && (t.Name == link.TapBER || t.Name == link.TapPre) {
 				return true
 			}
 		}
@@ -212,7 +216,7 @@ func tapSeries(pts []result.Point, t int) *series {
 		y, lo, hi, b := math.NaN(), math.NaN(), math.NaN(), math.NaN()
 		if t < len(p.Taps) && p.Taps[t].Trials > 0 {
 			tp := p.Taps[t]
-			if tp.Errors > 0 {
+			if tp.Errors > 0 || tp.Weighted() && tp.Rate > 0 {
 				y, lo, hi = tp.Rate, tp.Low, tp.High
 			} else {
 				b = tp.High

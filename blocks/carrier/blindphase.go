@@ -153,3 +153,6 @@ func (s *slicer) dist2(v complex128) float64 {
 	}
 	return best
 }
+
+// Nature declares the recovery adaptive to the estimators, which refuse it after the noise.
+func (b *BlindPhaseSearch) Nature() link.Kind { return link.Adaptive }

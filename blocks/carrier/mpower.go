@@ -108,3 +108,6 @@ func ipow(v complex128, m int) complex128 {
 	}
 	return p
 }
+
+// Nature declares the recovery adaptive to the estimators, which refuse it after the noise.
+func (b *MPowerRecovery) Nature() link.Kind { return link.Adaptive }

@@ -27,10 +27,20 @@ const (
 //
 // On a real-valued signal (BPSK, PAM, OOK) only the real noise is drawn; the imaginary half is
 // left pending (link.Frame.MakeComplex) since a real-axis detector ignores it.
+//
+// Under the link's estimators (link.Link.Estimate) the block changes what it draws; see
+// estimate.go: importance sampling draws biased noise and reports likelihood ratios, the
+// semi-analytic estimator draws none and reports the variance it left out.
 type WhiteNoise struct {
 	DB    float64 // the level in dB
 	By    Level   // which ratio DB states
 	Block string  // name in messages
+	// Shift is the mean translation of importance sampling per real dimension, in the
+	// signal's amplitude (the distance from a point to its decision boundary is the best
+	// choice); 0 chooses it from the frame's constellation (see Bias).
+	Shift float64
+
+	bias biasing // importance sampling scratch
 }
 
 // AWGN is the usual channel, set by Eb/N0 in dB.
@@ -47,10 +57,13 @@ func AWGNSNR(db float64) *WhiteNoise { return &WhiteNoise{DB: db, By: SNR, Block
 // Name is the constructor's name.
 func (c *WhiteNoise) Name() string { return c.Block }
 
-// Err reports a level that is not a finite number.
+// Err reports a level that is not a finite number, or a bad shift.
 func (c *WhiteNoise) Err() error {
 	if math.IsNaN(c.DB) || math.IsInf(c.DB, 0) {
 		return fmt.Errorf("%s: level %v dB is not a finite number", c.Block, c.DB)
+	}
+	if !(c.Shift >= 0) || math.IsInf(c.Shift, 1) {
+		return fmt.Errorf("%s.Bias: shift %v must be a finite number ≥ 0 (0 chooses it)", c.Block, c.Shift)
 	}
 	return nil
 }
@@ -87,6 +100,14 @@ func (c *WhiteNoise) Process(f *link.Frame, r *rng.Stream) error {
 	}
 	sigma := math.Sqrt(n0 / 2)
 	f.N0 = n0
+	switch f.Estimator {
+	case link.Importance:
+		return c.biased(f, r, sigma)
+	case link.SemiAnalytic:
+		f.NoiseVar = sigma * sigma
+		f.PendingImagSigma = 0
+		return nil
+	}
 	if f.Real {
 		r.AddRealNoise(f.Samples, sigma)
 		f.PendingImagSigma = sigma

@@ -242,3 +242,12 @@ func (c *Fading) correlated(x []complex128, r *rng.Stream, lead, sps int, los, s
 		}
 	}
 }
+
+// Nature declares per-symbol and time-correlated fading to the estimators (refused: the errors
+// come from the fades); block and per-frame fading are fixed gains within their block.
+func (c *Fading) Nature() link.Kind {
+	if c.FD > 0 || c.Coherence == 1 {
+		return link.SymbolFading
+	}
+	return link.Undeclared
+}

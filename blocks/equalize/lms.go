@@ -204,3 +204,6 @@ func nearest(pts []complex128, z complex128) complex128 {
 	}
 	return best
 }
+
+// Nature declares the equaliser adaptive to the estimators, which refuse it after the noise.
+func (e *Adaptive) Nature() link.Kind { return link.Adaptive }

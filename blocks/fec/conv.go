@@ -451,3 +451,6 @@ func (v *Viterbi) acs(x []int64, steps int) {
 		old, nu = nu, old
 	}
 }
+
+// Nature declares the decoder to the estimators, which refuse it after the noise.
+func (v *Viterbi) Nature() link.Kind { return link.Decoder }

@@ -209,3 +209,6 @@ func (d *HammingDecoder) Process(f *link.Frame, _ *rng.Stream) error {
 func (d *HammingDecoder) Detected(_ *link.Frame) (words, detected int64) {
 	return d.words, d.detected
 }
+
+// Nature declares the decoder to the estimators, which refuse it after the noise.
+func (d *HammingDecoder) Nature() link.Kind { return link.Decoder }

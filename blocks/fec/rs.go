@@ -325,3 +325,6 @@ func unpackBytes(bits, src []byte) {
 		}
 	}
 }
+
+// Nature declares the decoder to the estimators, which refuse it after the noise.
+func (d *RSDecoder) Nature() link.Kind { return link.Decoder }

@@ -100,3 +100,12 @@ func (a *Converter) Process(f *link.Frame, r *rng.Stream) error {
 	}
 	return nil
 }
+
+// Nature declares the converter to the estimators: memoryless with a fixed full scale (or
+// switched off), adaptive under its gain control, which sets the scale from the noisy frame.
+func (a *Converter) Nature() link.Kind {
+	if a.Bits == 0 || a.Scale > 0 {
+		return link.PerSample
+	}
+	return link.Adaptive
+}

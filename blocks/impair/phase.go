@@ -140,3 +140,9 @@ func (b *Wiener) Process(f *link.Frame, r *rng.Stream) error {
 	}
 	return nil
 }
+
+// Nature declares the rotation memoryless to the estimators.
+func (b *PhaseOffset) Nature() link.Kind { return link.PerSample }
+
+// NoiseUnchanged says the rotation is linear and keeps the noise variance per dimension.
+func (b *PhaseOffset) NoiseUnchanged() {}

@@ -54,6 +54,18 @@ type Frame struct {
 	Out  []byte    // decoded information bits; the link counts Out against Bits
 
 	Constellation []complex128 // the modulator's points, indexed by symbol label, for receivers
+
+	// What the estimators pass along (see Link.Estimate); zero in plain counting.
+	Estimator Estimator // the link's estimator, set before the first block
+	// Weight is, under importance sampling, the likelihood ratio of each sample's noise (the
+	// unbiased density over the biased one), set by the noise block: one per symbol.
+	Weight []float64
+	// NoiseVar is, in semi-analytic estimation, the variance per real dimension of the Gaussian
+	// noise the noise block left out, carried through the linear blocks after it.
+	NoiseVar float64
+	// Flip is, in semi-analytic estimation, the probability that the noise would flip each hard
+	// decision of the noise-free signal, set by the detector: one per bit of Hard.
+	Flip []float64
 }
 
 // GrowBytes returns s resized to n, reusing its storage when it is large enough.

@@ -12,19 +12,39 @@ import (
 // Tally is what a tap counted: trials (bits or frames) and the errors among them. A sum of
 // frames also keeps the number of frames and the sum of the squares of their error counts, so
 // the spread of errors between frames (bursts) can be judged without keeping any frame.
+//
+// A link run with an estimator (see Link.Estimate) also sums weights: Weight is Σ over the
+// decisions of w·[decision wrong] (importance sampling: w the decision's likelihood ratio) or
+// of the probability that the decision is wrong (semi-analytic), so Weight/Trials estimates
+// the rate; Errors then counts the decisions wrong in the simulated (biased or noise-free)
+// signal. WeightSquares is Σ w²·[wrong] (the same Σ P² when semi-analytic), for the effective
+// sample size, and FrameWeights Σ over frames of (the frame's Weight)², for the variance
+// between frames (stats.Weighted).
 type Tally struct {
 	Trials  int64
 	Errors  int64
 	Frames  int64 // frames summed (0 in one frame's own counts)
 	Squares int64 // Σ over frames of (errors in the frame)²
+
+	Estimator     Estimator // Count (0) for plain counting
+	Weight        float64   // Σ weighted error indicators
+	WeightSquares float64   // Σ squared weighted error indicators
+	FrameWeights  float64   // Σ over frames of (frame's Weight)²
 }
 
-// Add sums one frame's counts into t.
+// Add sums one frame's counts into t. The float sums are added in the order frames are
+// committed, so they are the same bits for any number of workers.
 func (t *Tally) Add(frame Tally) {
 	t.Trials += frame.Trials
 	t.Errors += frame.Errors
 	t.Frames++
 	t.Squares += frame.Errors * frame.Errors
+	if frame.Estimator != Count {
+		t.Estimator = frame.Estimator
+		t.Weight += frame.Weight
+		t.WeightSquares += frame.WeightSquares
+		t.FrameWeights += frame.Weight * frame.Weight
+	}
 }
 
 // Tap names. Every link counts TapBER (decoded bits against source bits) and TapFER (frames
@@ -51,6 +71,7 @@ type Link struct {
 	taps    []string
 	extra   []Counter
 	coded   bool
+	est     Estimator
 }
 
 // Chain makes a link of blocks in the order the signal passes them. A block with wrong
@@ -122,7 +143,7 @@ func (l *Link) Run(f *Frame, seed uint64, point, index int, counts []Tally) erro
 	if len(l.streams) != len(l.blocks) {
 		l.streams = make([]rng.Stream, len(l.blocks))
 	}
-	*f = Frame{Point: point, Index: index, SPS: 1, CodeRate: 1, Es: 1}
+	*f = Frame{Point: point, Index: index, SPS: 1, CodeRate: 1, Es: 1, Estimator: l.est}
 	for k, b := range l.blocks {
 		s := &l.streams[k]
 		s.Reset(rng.Key(seed, point, index, k))
@@ -143,6 +164,11 @@ func (l *Link) Run(f *Frame, seed uint64, point, index int, counts []Tally) erro
 	counts[1].Trials++
 	if e > 0 {
 		counts[1].Errors++
+	}
+	if l.est != Count {
+		if err := l.weigh(f, out, &counts[0], &counts[1]); err != nil {
+			return err
+		}
 	}
 	i := 2
 	if l.coded {

@@ -54,6 +54,7 @@ type Detector struct {
 	err  error
 	hard []byte
 	llr  []float64
+	flip []float64    // semi-analytic flip probabilities (estimate.go)
 	z    []complex128 // derotated samples (CSI)
 	n0s  []float64    // per-sample noise density (CSI)
 	m1   []float64    // metric scratch, one per point
@@ -164,6 +165,9 @@ func (d *Detector) Process(f *link.Frame, r *rng.Stream) error {
 	f.Hard = d.hard
 	if soft {
 		f.LLR = d.llr
+	}
+	if f.Estimator == link.SemiAnalytic && m.kind == kindAxis {
+		return d.flips(f, y)
 	}
 	return nil
 }

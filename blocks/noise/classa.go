@@ -132,3 +132,6 @@ func (c *ClassANoise) Process(f *link.Frame, r *rng.Stream) error {
 	}
 	return nil
 }
+
+// Nature declares the noise non-Gaussian to the estimators, which refuse it.
+func (c *ClassANoise) Nature() link.Kind { return link.NonGaussian }

@@ -74,3 +74,6 @@ func (c *ImpulseNoise) Process(f *link.Frame, r *rng.Stream) error {
 	}
 	return nil
 }
+
+// Nature declares the noise non-Gaussian to the estimators, which refuse it.
+func (c *ImpulseNoise) Nature() link.Kind { return link.NonGaussian }

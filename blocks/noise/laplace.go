@@ -57,3 +57,6 @@ func (c *LaplaceNoise) Process(f *link.Frame, r *rng.Stream) error {
 	}
 	return nil
 }
+
+// Nature declares the noise non-Gaussian to the estimators, which refuse it.
+func (c *LaplaceNoise) Nature() link.Kind { return link.NonGaussian }

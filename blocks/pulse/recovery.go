@@ -196,3 +196,6 @@ func (g *GardnerLoop) Process(f *link.Frame, r *rng.Stream) error {
 	f.Samples, f.SPS = g.out, 1
 	return nil
 }
+
+// Nature declares the timing loop adaptive to the estimators, which refuse it after the noise.
+func (g *GardnerLoop) Nature() link.Kind { return link.Adaptive }

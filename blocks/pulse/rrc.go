@@ -205,5 +205,16 @@ func (m *Matched) Process(f *link.Frame, r *rng.Stream) error {
 		}
 	}
 	f.Samples = y
+	if f.Estimator == link.SemiAnalytic {
+		// White noise of variance v per sample leaves the filter with v·Σg² per sample.
+		var e float64
+		for _, v := range g {
+			e += v * v
+		}
+		f.NoiseVar *= e
+	}
 	return nil
 }
+
+// Nature declares the matched filter a linear filter to the estimators.
+func (m *Matched) Nature() link.Kind { return link.LinearFilter }

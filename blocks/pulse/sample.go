@@ -47,3 +47,7 @@ func (s *Sampler) Process(f *link.Frame, r *rng.Stream) error {
 	f.Samples, f.SPS = s.out, 1
 	return nil
 }
+
+// Nature declares the sampler a linear resampler to the estimators (it keeps the noise
+// variance per sample).
+func (s *Sampler) Nature() link.Kind { return link.LinearFilter }

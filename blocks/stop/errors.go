@@ -4,6 +4,7 @@ import (
 	"fmt"
 
 	"tally/blocks/link"
+	"tally/blocks/stats"
 )
 
 // ErrorTarget ends a point once a tap has counted Count errors. Stopping at a fixed number of
@@ -21,10 +22,19 @@ func Errors(n int64) *ErrorTarget { return &ErrorTarget{Count: n, On: link.TapBE
 // Tap makes the rule count on another tap, for example link.TapFER for frame errors.
 func (r *ErrorTarget) Tap(name string) *ErrorTarget { r.On = name; return r }
 
-// Met is true once the tap's errors reach Count.
+// Met is true once the tap's errors reach Count. On a tap estimated with weights (importance
+// sampling, semi-analytic; see link.Estimator) it is met once the estimate is as precise as
+// Count counted errors would make it (stats.EquivalentErrors), so the same rule serves both;
+// a tap the estimator does not estimate never meets it.
 func (r *ErrorTarget) Met(p *Progress) bool {
 	t, _ := p.Tap(r.On)
-	return t.Errors >= r.Count
+	switch t.Estimator {
+	case link.Count:
+		return t.Errors >= r.Count
+	case link.Unestimated:
+		return false
+	}
+	return stats.EquivalentErrors(t) >= float64(r.Count)
 }
 
 // Name is "errors" (or "<tap>_errors" off the BER tap).

@@ -10,11 +10,16 @@ import (
 
 // interval is the tap's interval by the named method, and false when it must not be judged:
 // no trials counted yet (a 0-bit state says nothing) or a bad setting (Err reports it before
-// the run).
+// the run). A tap estimated with weights gives stats.Weighted's interval, and false while its
+// weights are degenerate or the tap is not estimated.
 func interval(p *Progress, tap, method string, confidence float64) (stats.Estimate, bool) {
 	t, _ := p.Tap(tap)
-	if t.Trials <= 0 {
+	if t.Trials <= 0 || t.Estimator == link.Unestimated {
 		return stats.Estimate{}, false
+	}
+	if t.Estimator != link.Count {
+		w, err := stats.Weighted(t, confidence)
+		return w.Estimate, err == nil && !w.Degenerate
 	}
 	e, err := stats.Interval(method, t.Errors, t.Trials, confidence)
 	return e, err == nil

@@ -14,7 +14,9 @@ const DefaultConfidence = 0.95
 
 // ShownBelow ends a point once its rate is shown below Target: the chance that a point whose
 // rate is not below Target ever ends this way is at most 1 − Confidence, however long it
-// runs, since the rule is judged after every frame.
+// runs, since the rule is judged after every frame. The test holds for counted errors only:
+// on a tap estimated with weights (link.Estimator) it is never met, since no test of ours
+// stays valid there under repeated looks.
 //
 // Why not "the interval's High < Target": each look at a fixed-n interval is one more chance
 // of a false claim (repeated significance tests; Armitage, McPherson and Rowe, J. R. Stat.
@@ -49,7 +51,7 @@ func (r *ShownBelow) Level(confidence float64) *ShownBelow { r.Confidence = conf
 // Met is true once the evidence M for a rate below Target reaches 1/(1 − Confidence).
 func (r *ShownBelow) Met(p *Progress) bool {
 	t, _ := p.Tap(r.On)
-	return r.Err() == nil && Evidence(t, r.Target, true) >= -math.Log(1-r.Confidence)
+	return r.Err() == nil && t.Estimator == link.Count && Evidence(t, r.Target, true) >= -math.Log(1-r.Confidence)
 }
 
 // Name is "below" (or "<tap>_below").
@@ -86,7 +88,7 @@ func (r *ShownAbove) Level(confidence float64) *ShownAbove { r.Confidence = conf
 // Met is true once the evidence M for a rate above Target reaches 1/(1 − Confidence).
 func (r *ShownAbove) Met(p *Progress) bool {
 	t, _ := p.Tap(r.On)
-	return r.Err() == nil && Evidence(t, r.Target, false) >= -math.Log(1-r.Confidence)
+	return r.Err() == nil && t.Estimator == link.Count && Evidence(t, r.Target, false) >= -math.Log(1-r.Confidence)
 }
 
 // Name is "above" (or "<tap>_above").

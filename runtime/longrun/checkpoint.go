@@ -24,13 +24,16 @@ type Checkpoint struct {
 
 // PointState is one point's committed prefix.
 type PointState struct {
-	Index   int        `json:"point"`
-	Values  []float64  `json:"values"`
-	Frames  int64      `json:"frames"`
-	Taps    []string   `json:"taps"`           // what the link counts (links may differ by point)
-	Counts  [][4]int64 `json:"counts"`         // per tap: trials, errors, frames, Σ errors²
-	Stop    string     `json:"stop,omitempty"` // the rule that ended it; empty while in progress
-	Seconds float64    `json:"seconds"`        // wall time spent on it
+	Index  int        `json:"point"`
+	Values []float64  `json:"values"`
+	Frames int64      `json:"frames"`
+	Taps   []string   `json:"taps"`   // what the link counts (links may differ by point)
+	Counts [][4]int64 `json:"counts"` // per tap: trials, errors, frames, Σ errors²
+	// Weights, per tap, are the estimators' sums: estimator, Σ weights, Σ weights², Σ over
+	// frames of the frame's Σ weights squared (format v2; absent in plain counting).
+	Weights [][4]float64 `json:"weights,omitempty"`
+	Stop    string       `json:"stop,omitempty"` // the rule that ended it; empty while in progress
+	Seconds float64      `json:"seconds"`        // wall time spent on it
 }
 
 // CheckpointPath is the checkpoint of the run whose outputs go to dir.
@@ -43,7 +46,8 @@ func LoadCheckpoint(path string) (*Checkpoint, error) {
 		return nil, err
 	}
 	for i, p := range c.Points {
-		if p.Index < 0 || i > 0 && p.Index <= c.Points[i-1].Index || p.Frames < 0 || len(p.Counts) != len(p.Taps) {
+		if p.Index < 0 || i > 0 && p.Index <= c.Points[i-1].Index || p.Frames < 0 || len(p.Counts) != len(p.Taps) ||
+			len(p.Weights) != 0 && len(p.Weights) != len(p.Taps) {
 			return nil, fmt.Errorf("%s: point %d is inconsistent", path, p.Index+1)
 		}
 		if p.Stop == "" && i != len(c.Points)-1 {
@@ -86,6 +90,31 @@ func Unpack(p [][4]int64) []link.Tally {
 	t := make([]link.Tally, len(p))
 	for i, c := range p {
 		t[i] = link.Tally{Trials: c[0], Errors: c[1], Frames: c[2], Squares: c[3]}
+	}
+	return t
+}
+
+// SetTallies records the counts and weighted sums of the point's taps.
+func (p *PointState) SetTallies(t []link.Tally) {
+	p.Counts, p.Weights = Pack(t), nil
+	for _, c := range t {
+		if c.Estimator != link.Count {
+			p.Weights = make([][4]float64, len(t))
+			for i, c := range t {
+				p.Weights[i] = [4]float64{float64(c.Estimator), c.Weight, c.WeightSquares, c.FrameWeights}
+			}
+			break
+		}
+	}
+}
+
+// Tallies are the point's saved counts with their weighted sums.
+func (p *PointState) Tallies() []link.Tally {
+	t := Unpack(p.Counts)
+	for i, w := range p.Weights {
+		if i < len(t) {
+			t[i].Estimator, t[i].Weight, t[i].WeightSquares, t[i].FrameWeights = link.Estimator(w[0]), w[1], w[2], w[3]
+		}
 	}
 	return t
 }

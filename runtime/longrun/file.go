@@ -28,8 +28,10 @@ import (
 	"tally/runtime/output"
 )
 
-// Version is the format version of the files this package writes and reads.
-const Version = 1
+// Version is the format version of the files this package writes. Version 2 added the
+// weighted sums of the estimators (link.Estimator) beside the counts; this package reads
+// versions 1 and 2 (a version 1 body is a version 2 body without weights).
+const Version = 2
 
 // File kinds.
 const (
@@ -68,7 +70,7 @@ func Decode(data []byte, kind string, v any) error {
 	if f[1] != kind {
 		return fmt.Errorf("a tally %s file, not a %s file", f[1], kind)
 	}
-	if f[2] != "v"+strconv.Itoa(Version) {
+	if f[2] != "v"+strconv.Itoa(Version) && f[2] != "v1" {
 		return fmt.Errorf("format %s, this tally reads v%d", f[2], Version)
 	}
 	n, err := strconv.Atoi(f[3])

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"os"
 	"path/filepath"
+	"slices"
 	"strings"
 	"testing"
 
@@ -68,9 +69,62 @@ func TestWrongKindOrVersion(t *testing.T) {
 	if err := Decode(data, KindCheckpoint, &c); err == nil || !strings.Contains(err.Error(), "shard") {
 		t.Errorf("a shard file read as a checkpoint: %v", err)
 	}
-	v2 := strings.Replace(string(data), " v1 ", " v2 ", 1)
-	if err := Decode([]byte(v2), KindShard, &ShardFile{}); err == nil || !strings.Contains(err.Error(), "v2") {
-		t.Errorf("a v2 file: %v", err)
+	v3 := strings.Replace(string(data), " v2 ", " v3 ", 1)
+	if err := Decode([]byte(v3), KindShard, &ShardFile{}); err == nil || !strings.Contains(err.Error(), "v3") {
+		t.Errorf("a v3 file: %v", err)
+	}
+	// Version 1 files (before the estimators' weights) are still read.
+	v1 := strings.Replace(string(data), " v2 ", " v1 ", 1)
+	if err := Decode([]byte(v1), KindShard, &ShardFile{}); err != nil {
+		t.Errorf("a v1 file: %v", err)
+	}
+}
+
+// Weighted sums survive a checkpoint and a shard file bit for bit, and a shard's sum and
+// frames give what the engine's in-order Add gives.
+func TestWeightsRoundTrip(t *testing.T) {
+	frames := [][]link.Tally{
+		{{Trials: 100, Errors: 3, Estimator: link.Importance, Weight: 1.25e-13, WeightSquares: 7e-27}, {Trials: 1, Errors: 1, Estimator: link.Unestimated}},
+		{{Trials: 100, Estimator: link.Importance}, {Trials: 1, Estimator: link.Unestimated}},
+		{{Trials: 100, Errors: 5, Estimator: link.Importance, Weight: 3.0000000000000004e-13, WeightSquares: 1.9e-26}, {Trials: 1, Errors: 1, Estimator: link.Unestimated}},
+	}
+	want := make([]link.Tally, 2)
+	sp := ShardPoint{Taps: []string{"ber", "fer"}}
+	for _, c := range frames {
+		for i := range c {
+			want[i].Add(c[i])
+		}
+		sp.Add(c)
+	}
+	ps := PointState{Taps: sp.Taps}
+	ps.SetTallies(want)
+	var back Checkpoint
+	data, err := Encode(KindCheckpoint, &Checkpoint{Points: []PointState{ps}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := Decode(data, KindCheckpoint, &back); err != nil {
+		t.Fatal(err)
+	}
+	if got := back.Points[0].Tallies(); !slices.Equal(got, want) {
+		t.Errorf("checkpoint: %+v, want %+v", got, want)
+	}
+	var sf ShardFile
+	data, _ = Encode(KindShard, &ShardFile{Of: 1, Points: []ShardPoint{sp}})
+	if err := Decode(data, KindShard, &sf); err != nil {
+		t.Fatal(err)
+	}
+	p := &sf.Points[0]
+	if err := p.check(); err != nil {
+		t.Fatal(err)
+	}
+	if got := p.Sum(); !slices.Equal(got, want) {
+		t.Errorf("shard sum: %+v, want %+v", got, want)
+	}
+	for k, c := range frames {
+		if got, _ := p.Frame(int64(k)); !slices.Equal(got, c) {
+			t.Errorf("shard frame %d: %+v, want %+v", k, got, c)
+		}
 	}
 }
 

@@ -242,7 +242,7 @@ func (c *checkpointer) Committed(f int64, counts []link.Tally) {
 	}
 	c.cur.Frames++
 	if c.s.due() {
-		c.cur.Counts = Pack(c.counts)
+		c.cur.SetTallies(c.counts)
 		c.cur.Seconds = (c.before + time.Since(c.start)).Seconds()
 		c.s.ck.Set(c.cur)
 		c.s.save(KindCheckpoint, c.s.ck)
@@ -257,7 +257,7 @@ func (s *Session) checkpoint(pt Point, spec engine.Spec, run Runner) (engine.Out
 				return engine.Outcome{}, fmt.Errorf("resume: point %d of %s has values %v, the sweep %v; run with -restart", pt.Index+1, s.path, ps.Values, pt.Values)
 			}
 			c.before = time.Duration(ps.Seconds * float64(time.Second))
-			c.counts = Unpack(ps.Counts)
+			c.counts = ps.Tallies()
 			spec.Start = &engine.State{Frames: ps.Frames, Counts: append([]link.Tally(nil), c.counts...), Elapsed: c.before}
 			c.cur.Frames = ps.Frames
 		}
@@ -269,7 +269,8 @@ func (s *Session) checkpoint(pt Point, spec engine.Spec, run Runner) (engine.Out
 		return out, err
 	}
 	cur := c.cur
-	cur.Frames, cur.Counts, cur.Seconds = out.Frames, Pack(out.Counts), out.Elapsed.Seconds()
+	cur.Frames, cur.Seconds = out.Frames, out.Elapsed.Seconds()
+	cur.SetTallies(out.Counts)
 	if out.Stop != engine.Interrupted {
 		cur.Stop = out.Stop
 	}

@@ -138,12 +138,25 @@ type ShardPoint struct {
 	// Runs are the per-frame counts, run-length coded (frames without errors repeat):
 	// [n, trials, errors, trials, errors, …] for n consecutive frames with these counts per tap.
 	Runs [][]int64 `json:"runs"`
+	// Weights are, when the point's link estimates with weights (format v2), one row per frame:
+	// per tap the estimator, the frame's Σ weights and Σ weights². Absent in plain counting.
+	Weights [][]float64 `json:"weights,omitempty"`
 
 	starts []int64 // frame number (of this shard) where each run begins; built by index
 }
 
 // Add appends one frame's counts.
 func (p *ShardPoint) Add(c []link.Tally) {
+	if weighted(c) || len(p.Weights) > 0 {
+		for int64(len(p.Weights)) < p.Frames {
+			p.Weights = append(p.Weights, make([]float64, 3*len(c)))
+		}
+		row := make([]float64, 3*len(c))
+		for i, t := range c {
+			row[3*i], row[3*i+1], row[3*i+2] = float64(t.Estimator), t.Weight, t.WeightSquares
+		}
+		p.Weights = append(p.Weights, row)
+	}
 	if k := len(p.Runs); k > 0 && same(p.Runs[k-1], c) {
 		p.Runs[k-1][0]++
 	} else {
@@ -156,6 +169,26 @@ func (p *ShardPoint) Add(c []link.Tally) {
 	}
 	p.Frames++
 	p.starts = nil
+}
+
+func weighted(c []link.Tally) bool {
+	for _, t := range c {
+		if t.Estimator != link.Count {
+			return true
+		}
+	}
+	return false
+}
+
+// weigh puts frame k's weighted sums into its counts c.
+func (p *ShardPoint) weigh(k int64, c []link.Tally) {
+	if k >= int64(len(p.Weights)) {
+		return
+	}
+	row := p.Weights[k]
+	for i := range c {
+		c[i].Estimator, c[i].Weight, c[i].WeightSquares = link.Estimator(row[3*i]), row[3*i+1], row[3*i+2]
+	}
 }
 
 func same(r []int64, c []link.Tally) bool {
@@ -173,6 +206,15 @@ func same(r []int64, c []link.Tally) bool {
 // Sum is the total of the point's frames in this shard.
 func (p *ShardPoint) Sum() []link.Tally {
 	s := make([]link.Tally, len(p.Taps))
+	if len(p.Weights) > 0 { // frame by frame, in order, as the engine adds them
+		for k := range p.Frames {
+			c, _ := p.Frame(k)
+			for i := range s {
+				s[i].Add(c[i])
+			}
+		}
+		return s
+	}
 	for _, r := range p.Runs {
 		for i := range s {
 			e := r[2+2*i]
@@ -199,6 +241,7 @@ func (p *ShardPoint) Frame(k int64) ([]link.Tally, bool) {
 	for i := range c {
 		c[i] = link.Tally{Trials: r[1+2*i], Errors: r[2+2*i]}
 	}
+	p.weigh(k, c)
 	return c, true
 }
 
@@ -223,6 +266,14 @@ func (p *ShardPoint) check() error {
 	}
 	if n != p.Frames {
 		return fmt.Errorf("point %d: runs hold %d frames, the point says %d", p.Index+1, n, p.Frames)
+	}
+	if len(p.Weights) != 0 && int64(len(p.Weights)) != p.Frames {
+		return fmt.Errorf("point %d: weights for %d frames, the point has %d", p.Index+1, len(p.Weights), p.Frames)
+	}
+	for _, w := range p.Weights {
+		if len(w) != 3*taps {
+			return fmt.Errorf("point %d: a frame's weights do not fit %d taps", p.Index+1, taps)
+		}
 	}
 	return nil
 }

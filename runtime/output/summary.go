@@ -16,6 +16,9 @@ func Summary(r *result.Run, files []string) []byte {
 	fmt.Fprintf(&b, "# %s\n\n", r.Name)
 	fmt.Fprintf(&b, "Results of `%s` (script SHA-256 `%.12s…`), seed %d, %s intervals at %g %% confidence.",
 		r.Script, r.ScriptSHA256, r.Seed, r.Method, 100*r.Confidence)
+	if Weighted(r) {
+		b.WriteString(" Points estimated by importance sampling or semi-analytically use their estimator's interval (see Estimators).")
+	}
 	if r.Interrupted {
 		b.WriteString(" **The run was interrupted**: the last point is incomplete.")
 	}
@@ -72,6 +75,7 @@ func Summary(r *result.Run, files []string) []byte {
 		fmt.Fprintf(&b, "\nErrors came in bursts at %s. Those intervals are widened by the spread of errors between frames, since intervals for independent errors would be too narrow.\n",
 			strings.Join(bursty, "; "))
 	}
+	estimatorSummary(&b, r)
 	if len(r.Taps) > 1 {
 		b.WriteString("\nOther taps (frame error rate, pre-decoder BER, the script's own counts) are in `table.csv`.\n")
 	}

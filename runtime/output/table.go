@@ -53,6 +53,10 @@ func Table(r *result.Run) []byte {
 	for _, c := range r.Theory {
 		head = append(head, "theory_"+c)
 	}
+	weighted := Weighted(r)
+	if weighted {
+		head = append(head, estimatorColumns...)
+	}
 	w.Write(head)
 	for _, p := range r.Points {
 		row := make([]string, 0, len(head))
@@ -71,6 +75,9 @@ func Table(r *result.Run) []byte {
 		}
 		for _, v := range p.Theory {
 			row = append(row, Num(v))
+		}
+		if weighted {
+			row = append(row, estimatorCells(p)...)
 		}
 		w.Write(row)
 	}

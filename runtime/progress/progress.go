@@ -107,7 +107,12 @@ func Live(p Point, pr *stop.Progress) string {
 	if conf == 0 {
 		conf = 0.95
 	}
-	if ber.Trials > 0 {
+	if ber.Trials > 0 && ber.Estimator != link.Count {
+		// Importance sampling or semi-analytic: the weighted estimate so far.
+		if e, err := stats.Weighted(ber, conf); err == nil {
+			fmt.Fprintf(&b, "  ber %.3g [%.3g, %.3g] %s", e.Rate, e.Low, e.High, ber.Estimator)
+		}
+	} else if ber.Trials > 0 {
 		// The fixed-n interval of the prefix: a gauge while running; the finished point gets
 		// the interval valid for the rule that ended it.
 		if e, err := stats.Interval(p.Method, ber.Errors, ber.Trials, conf); err == nil {
@@ -160,6 +165,11 @@ func Left(rules []stop.Rule, pr *stop.Progress) (time.Duration, bool) {
 			}
 			t, _ := pr.Tap(on)
 			done, want = float64(t.Errors), float64(r.Count)
+			if t.Estimator != link.Count {
+				// A weighted tap meets the rule at the precision of Count errors, which grows
+				// about in proportion to the frames run.
+				done = math.Min(stats.EquivalentErrors(t), 1e300)
+			}
 		case *stop.BitCap:
 			t, _ := pr.Tap(link.TapBER)
 			done, want = float64(t.Trials), float64(r.Max)
@@ -187,6 +197,12 @@ func Finished(label string, rp result.Point) string {
 	if len(rp.Taps) > 0 {
 		t := rp.Taps[0]
 		fmt.Fprintf(&b, "  bits=%d errors=%d ber=%.3g [%.3g, %.3g]", t.Trials, t.Errors, t.Rate, t.Low, t.High)
+		if t.Weighted() {
+			fmt.Fprintf(&b, " %s", t.Estimator)
+			if t.Degenerate {
+				b.WriteString(" (weights degenerated)")
+			}
+		}
 	}
 	fmt.Fprintf(&b, " stop=%s  %.1f Mbit/s  %s", rp.Stop, rp.BitRate/1e6, Duration(time.Duration(rp.Seconds*float64(time.Second))))
 	return b.String()

@@ -60,7 +60,21 @@ type Tap struct {
 	// Dispersion is the spread of errors between frames against independent errors (1); the
 	// interval is widened ("+clustered" in Method) when it is shown above 1. 0: not judged.
 	Dispersion float64 `json:"dispersion,omitempty"`
+	// Estimator names a tap's weighted estimator ("importance-sampling", "semi-analytic"; empty
+	// for counted errors, "not-estimated" for a tap the estimator does not serve); its interval
+	// comes from the variance of the weighted sums between frames (IntervalFrom). Effective is
+	// Kish's effective sample size of the weights, Degenerate flags weights that degenerated
+	// (the interval is not to be read as precise), PlainBits the bits plain counting would need
+	// for the same precision at the estimated rate.
+	Estimator    string  `json:"estimator,omitempty"`
+	IntervalFrom string  `json:"interval_from,omitempty"`
+	Effective    float64 `json:"effective_samples,omitempty"`
+	Degenerate   bool    `json:"degenerate,omitempty"`
+	PlainBits    float64 `json:"plain_bits_needed,omitempty"`
 }
+
+// Weighted reports whether the tap was estimated with weights.
+func (t Tap) Weighted() bool { return t.Estimator != "" && !t.Absent }
 
 // Target is the swept value at which a tap crosses a target error rate.
 type Target struct {

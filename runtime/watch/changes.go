@@ -48,7 +48,9 @@ func Changes(prev, next *result.Run) []string {
 		k := key(next, *p)
 		seen[k] = true
 		r := row{label: label(next, *p), stop: p.Stop, old: old[k], new: &p.Taps[nb]}
-		if r.old != nil && r.old.Trials > 0 && r.new.Trials > 0 && !(r.old.Errors == r.new.Errors && r.old.Trials == r.new.Trials) {
+		// Weighted estimates (importance sampling, semi-analytic) are not counts: no Fisher test.
+		if r.old != nil && r.old.Trials > 0 && r.new.Trials > 0 && !(r.old.Errors == r.new.Errors && r.old.Trials == r.new.Trials) &&
+			!r.old.Weighted() && !r.new.Weighted() {
 			if res, err := compare.Proportions(r.old.Errors, r.old.Trials, r.new.Errors, r.new.Trials); err == nil {
 				r.p, r.test = res.P, true
 			}
@@ -79,10 +81,13 @@ func Changes(prev, next *result.Run) []string {
 			s += "not run this time (" + r.stop + ")"
 		case r.old == nil:
 			s += fmt.Sprintf("ber %.3g  (new point)", r.new.Rate)
-		case r.old.Errors == r.new.Errors && r.old.Trials == r.new.Trials:
+		case r.old.Errors == r.new.Errors && r.old.Trials == r.new.Trials && r.old.Rate == r.new.Rate:
 			s += fmt.Sprintf("ber %.3g  same counts", r.new.Rate)
 		case !r.test:
 			s += fmt.Sprintf("ber %.3g → %.3g", r.old.Rate, r.new.Rate)
+			if r.new.Weighted() {
+				s += fmt.Sprintf("  (%s, interval [%.3g, %.3g]; not tested)", r.new.Estimator, r.new.Low, r.new.High)
+			}
 		default:
 			s += fmt.Sprintf("ber %.3g → %.3g", r.old.Rate, r.new.Rate)
 			if r.old.Errors > 0 && r.new.Errors > 0 {
@@ -99,7 +104,7 @@ func Changes(prev, next *result.Run) []string {
 	}
 	same := len(rows) > 1
 	for _, r := range rows {
-		same = same && r.old != nil && r.old.Errors == r.new.Errors && r.old.Trials == r.new.Trials
+		same = same && r.old != nil && r.old.Errors == r.new.Errors && r.old.Trials == r.new.Trials && r.old.Rate == r.new.Rate
 	}
 	if same {
 		lines = []string{fmt.Sprintf("same counts at all %d points", len(rows))}

@@ -16,33 +16,56 @@ import (
 func init() {
 	Symbols["tally/blocks/link/link"] = map[string]reflect.Value{
 		// function, constant and variable definitions
-		"Chain":       reflect.ValueOf(link.Chain),
-		"CountErrors": reflect.ValueOf(link.CountErrors),
-		"Func":        reflect.ValueOf(link.Func),
-		"GrowBytes":   reflect.ValueOf(link.GrowBytes),
-		"GrowComplex": reflect.ValueOf(link.GrowComplex),
-		"GrowFloats":  reflect.ValueOf(link.GrowFloats),
-		"NameOf":      reflect.ValueOf(link.NameOf),
-		"TapBER":      reflect.ValueOf(constant.MakeFromLiteral("\"ber\"", token.STRING, 0)),
-		"TapFER":      reflect.ValueOf(constant.MakeFromLiteral("\"fer\"", token.STRING, 0)),
-		"TapPre":      reflect.ValueOf(constant.MakeFromLiteral("\"pre\"", token.STRING, 0)),
+		"Adaptive":       reflect.ValueOf(link.Adaptive),
+		"Chain":          reflect.ValueOf(link.Chain),
+		"Count":          reflect.ValueOf(link.Count),
+		"CountErrors":    reflect.ValueOf(link.CountErrors),
+		"Decoder":        reflect.ValueOf(link.Decoder),
+		"Detector":       reflect.ValueOf(link.Detector),
+		"EstimatorNamed": reflect.ValueOf(link.EstimatorNamed),
+		"Func":           reflect.ValueOf(link.Func),
+		"GaussianNoise":  reflect.ValueOf(link.GaussianNoise),
+		"GrowBytes":      reflect.ValueOf(link.GrowBytes),
+		"GrowComplex":    reflect.ValueOf(link.GrowComplex),
+		"GrowFloats":     reflect.ValueOf(link.GrowFloats),
+		"Importance":     reflect.ValueOf(link.Importance),
+		"KindOf":         reflect.ValueOf(link.KindOf),
+		"LinearFilter":   reflect.ValueOf(link.LinearFilter),
+		"NameOf":         reflect.ValueOf(link.NameOf),
+		"NonGaussian":    reflect.ValueOf(link.NonGaussian),
+		"PerSample":      reflect.ValueOf(link.PerSample),
+		"SemiAnalytic":   reflect.ValueOf(link.SemiAnalytic),
+		"SymbolFading":   reflect.ValueOf(link.SymbolFading),
+		"TapBER":         reflect.ValueOf(constant.MakeFromLiteral("\"ber\"", token.STRING, 0)),
+		"TapFER":         reflect.ValueOf(constant.MakeFromLiteral("\"fer\"", token.STRING, 0)),
+		"TapPre":         reflect.ValueOf(constant.MakeFromLiteral("\"pre\"", token.STRING, 0)),
+		"Undeclared":     reflect.ValueOf(link.Undeclared),
+		"Unestimated":    reflect.ValueOf(link.Unestimated),
 
 		// type definitions
-		"Block":     reflect.ValueOf((*link.Block)(nil)),
-		"Checked":   reflect.ValueOf((*link.Checked)(nil)),
-		"Coder":     reflect.ValueOf((*link.Coder)(nil)),
-		"Counter":   reflect.ValueOf((*link.Counter)(nil)),
-		"Frame":     reflect.ValueOf((*link.Frame)(nil)),
-		"FuncBlock": reflect.ValueOf((*link.FuncBlock)(nil)),
-		"Link":      reflect.ValueOf((*link.Link)(nil)),
-		"Named":     reflect.ValueOf((*link.Named)(nil)),
-		"Tally":     reflect.ValueOf((*link.Tally)(nil)),
+		"Block":            reflect.ValueOf((*link.Block)(nil)),
+		"Checked":          reflect.ValueOf((*link.Checked)(nil)),
+		"Coder":            reflect.ValueOf((*link.Coder)(nil)),
+		"Counter":          reflect.ValueOf((*link.Counter)(nil)),
+		"Estimator":        reflect.ValueOf((*link.Estimator)(nil)),
+		"EstimatorCheck":   reflect.ValueOf((*link.EstimatorCheck)(nil)),
+		"Frame":            reflect.ValueOf((*link.Frame)(nil)),
+		"FuncBlock":        reflect.ValueOf((*link.FuncBlock)(nil)),
+		"Kind":             reflect.ValueOf((*link.Kind)(nil)),
+		"LinearAfterNoise": reflect.ValueOf((*link.LinearAfterNoise)(nil)),
+		"Link":             reflect.ValueOf((*link.Link)(nil)),
+		"Named":            reflect.ValueOf((*link.Named)(nil)),
+		"Nature":           reflect.ValueOf((*link.Nature)(nil)),
+		"Tally":            reflect.ValueOf((*link.Tally)(nil)),
 
 		// interface wrapper definitions
-		"_Block":   reflect.ValueOf((*_tally_blocks_link_Block)(nil)),
-		"_Checked": reflect.ValueOf((*_tally_blocks_link_Checked)(nil)),
-		"_Coder":   reflect.ValueOf((*_tally_blocks_link_Coder)(nil)),
-		"_Named":   reflect.ValueOf((*_tally_blocks_link_Named)(nil)),
+		"_Block":            reflect.ValueOf((*_tally_blocks_link_Block)(nil)),
+		"_Checked":          reflect.ValueOf((*_tally_blocks_link_Checked)(nil)),
+		"_Coder":            reflect.ValueOf((*_tally_blocks_link_Coder)(nil)),
+		"_EstimatorCheck":   reflect.ValueOf((*_tally_blocks_link_EstimatorCheck)(nil)),
+		"_LinearAfterNoise": reflect.ValueOf((*_tally_blocks_link_LinearAfterNoise)(nil)),
+		"_Named":            reflect.ValueOf((*_tally_blocks_link_Named)(nil)),
+		"_Nature":           reflect.ValueOf((*_tally_blocks_link_Nature)(nil)),
 	}
 }
 
@@ -76,6 +99,26 @@ func (W _tally_blocks_link_Coder) Rate() float64 {
 	return W.WRate()
 }
 
+// _tally_blocks_link_EstimatorCheck is an interface wrapper for EstimatorCheck type
+type _tally_blocks_link_EstimatorCheck struct {
+	IValue          interface{}
+	WCheckEstimator func(e link.Estimator) error
+}
+
+func (W _tally_blocks_link_EstimatorCheck) CheckEstimator(e link.Estimator) error {
+	return W.WCheckEstimator(e)
+}
+
+// _tally_blocks_link_LinearAfterNoise is an interface wrapper for LinearAfterNoise type
+type _tally_blocks_link_LinearAfterNoise struct {
+	IValue          interface{}
+	WNoiseUnchanged func()
+}
+
+func (W _tally_blocks_link_LinearAfterNoise) NoiseUnchanged() {
+	W.WNoiseUnchanged()
+}
+
 // _tally_blocks_link_Named is an interface wrapper for Named type
 type _tally_blocks_link_Named struct {
 	IValue interface{}
@@ -84,4 +127,14 @@ type _tally_blocks_link_Named struct {
 
 func (W _tally_blocks_link_Named) Name() string {
 	return W.WName()
+}
+
+// _tally_blocks_link_Nature is an interface wrapper for Nature type
+type _tally_blocks_link_Nature struct {
+	IValue  interface{}
+	WNature func() link.Kind
+}
+
+func (W _tally_blocks_link_Nature) Nature() link.Kind {
+	return W.WNature()
 }

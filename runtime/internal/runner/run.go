@@ -179,6 +179,7 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		if l == nil {
 			return nil, fmt.Errorf("sim: the Link function returned nil for point %d", pt.Index+1)
 		}
+		x.estimateOn(l)
 		return l, nil
 	}
 	where := x.opts.Where
@@ -199,6 +200,14 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 			target = et.Count
 		}
 		c := out.Counts[i]
+		if c.Estimator != link.Count { // importance sampling, semi-analytic (estimate.go)
+			tap, err := weightedTap(name, c, x.Confidence)
+			if err != nil {
+				return rp, err
+			}
+			rp.Taps = append(rp.Taps, tap)
+			continue
+		}
 		est, err := stats.ForPoint(c, x.Confidence, x.Method, target)
 		if err != nil {
 			return rp, err

@@ -20,6 +20,10 @@ type Spec struct {
 	Confidence float64
 	Method     string
 	Seed       uint64
+	// Estimator is how every point's link estimates its BER (sim.Experiment.Estimate);
+	// AutoEstimate picks per link.
+	Estimator    link.Estimator
+	AutoEstimate bool
 }
 
 // NewSpec is a spec with the defaults: 95 % Clopper–Pearson intervals, DefaultSeed.

@@ -41,7 +41,11 @@ func (x *experiment) skip(run *result.Run, pt Point) (bool, string) {
 			continue
 		}
 		t := p.Taps[0]
-		done = append(done, stop.Outcome{X: p.Values[0], Tally: link.Tally{Trials: t.Trials, Errors: t.Errors},
+		errs := t.Errors
+		if t.Weighted() {
+			errs = 0 // a budget predicts bits for counted errors only; a floor reads the interval
+		}
+		done = append(done, stop.Outcome{X: p.Values[0], Tally: link.Tally{Trials: t.Trials, Errors: errs},
 			Estimate: stats.Estimate{Rate: t.Rate, Low: t.Low, High: t.High, Method: t.Method}})
 	}
 	for _, r := range x.SweepRules {
