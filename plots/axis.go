@@ -104,7 +104,7 @@ func (s *sweepTicker) Ticks(lo, hi float64) []plot.Tick {
 		return t
 	}
 	st := textStyle(s.font, ink)
-	x := func(v float64) vg.Length { return vg.Length((v - lo) / (hi - lo)) * s.width }
+	x := func(v float64) vg.Length { return vg.Length((v-lo)/(hi-lo)) * s.width }
 	fits := func(k int) bool {
 		for i := 0; i+k < len(t); i += k {
 			a, b := t[i], t[i+k]
