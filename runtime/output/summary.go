@@ -3,7 +3,6 @@ package output
 import (
 	"bytes"
 	"fmt"
-	"math"
 	"strings"
 
 	"tally/runtime/result"
@@ -91,20 +90,14 @@ func targetLine(r *result.Run, t result.Target) string {
 	if !t.Found {
 		return fmt.Sprintf("%s = %g%s: not bracketed by the sweep (%s)", t.Tap, t.Rate, where, t.Note)
 	}
-	s := fmt.Sprintf("%s = %g%s at %s = %.2f, interval [%.2f, %.2f]", t.Tap, t.Rate, where, x, t.X, t.Low, t.High)
+	unit := AxisUnit(x)
+	s := fmt.Sprintf("%s = %g%s at %s = %s, interval [%s, %s]", t.Tap, t.Rate, where, x,
+		axisValue(t.X, unit), axisValue(t.Low, unit), axisValue(t.High, unit))
 	if t.Against != "" && t.Note == "" {
-		more := "more"
-		if t.Penalty < 0 {
-			more = "less"
-		}
-		s += fmt.Sprintf("; needs %.2f dB %s than %s", math.Abs(t.Penalty), more, t.Against)
+		s += "; " + distance(x, t.Penalty, t.Against)
 	}
 	if t.GainOver != "" {
-		less := "less"
-		if t.Gain < 0 {
-			less = "more"
-		}
-		s += fmt.Sprintf("; %.2f dB %s than %s", math.Abs(t.Gain), less, t.GainOver)
+		s += "; " + distance(x, -t.Gain, t.GainOver)
 	}
 	if t.Note != "" {
 		s += " (" + t.Note + ")"

@@ -70,13 +70,19 @@ type Target struct {
 	Low     float64 `json:"x_low"`
 	High    float64 `json:"x_high"`
 	Against string  `json:"against,omitempty"`    // theory curve compared with
-	Penalty float64 `json:"penalty_db,omitempty"` // X minus the theory's value at the target
+	Penalty float64 `json:"penalty_db,omitempty"` // X minus the theory's value at the target, in Unit
 	TheoryX float64 `json:"theory_x,omitempty"`   // where the theory curve reaches the target
-	// Gain is how much less of the swept value (dB) this curve needs than the first curve,
-	// GainOver names it: the coding gain when the curves are uncoded and coded links.
+	// Gain is how much less of the swept value this curve needs than the first curve (in Unit;
+	// the JSON names keep "_db" from when every axis was taken to be in dB), GainOver names
+	// it: the coding gain when the curves are uncoded and coded links on an Eb/N0 axis.
 	Gain     float64 `json:"gain_db,omitempty"`
 	GainOver string  `json:"gain_over,omitempty"`
-	Note     string  `json:"note,omitempty"`
+	// Unit is the swept axis's unit, read from the parameter's name (ebn0_db: "dB",
+	// drift_ppm: "ppm"; "" for a name without one).
+	Unit string `json:"unit,omitempty"`
+	// Method says how X and its interval were found, the claim's method.
+	Method string `json:"method,omitempty"`
+	Note   string `json:"note,omitempty"`
 }
 
 // Scatter is what the receiver saw in one frame of one point.

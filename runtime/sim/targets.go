@@ -4,6 +4,7 @@ import (
 	"fmt"
 
 	"tally/blocks/stats"
+	"tally/runtime/output"
 	"tally/runtime/result"
 )
 
@@ -29,7 +30,8 @@ func (x *Experiment) findTargets(run *result.Run) {
 				xs = append(xs, p.Values[0])
 				est = append(est, stats.Estimate{Rate: tp.Rate, Low: tp.Low, High: tp.High})
 			}
-			tr := result.Target{Tap: t.tap, Rate: t.rate, Curve: c.label, Against: t.against}
+			tr := result.Target{Tap: t.tap, Rate: t.rate, Curve: c.label, Against: t.against,
+				Unit: output.AxisUnit(run.Params[0]), Method: stats.CrossingMethod}
 			cr, err := stats.AtTarget(xs, est, t.rate)
 			if err != nil {
 				tr.Note = err.Error()
