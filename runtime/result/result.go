@@ -56,8 +56,12 @@ type Tap struct {
 	Method string  `json:"method"`
 	Absent bool    `json:"absent,omitempty"` // the point's link has no such tap
 	// Dispersion is the spread of errors between frames against independent errors (1); the
-	// interval is widened ("+clustered" in Method) when it is shown above 1. 0: not judged.
+	// interval is widened ("+clustered" in Method) when the burst test shows it above 1. 0:
+	// not judged.
 	Dispersion float64 `json:"dispersion,omitempty"`
+	// BurstTest names the method that judged whether the errors came in bursts (see
+	// stats.BurstTest); the interval is widened only when that test says so.
+	BurstTest string `json:"burst_test,omitempty"`
 }
 
 // Target is the swept value at which a tap crosses a target error rate.
