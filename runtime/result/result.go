@@ -43,6 +43,10 @@ type Point struct {
 	Seconds float64   `json:"wall_seconds"`
 	BitRate float64   `json:"bits_per_second"`
 	Note    string    `json:"note,omitempty"` // why a point was skipped
+	// Claim names the test behind the claim the stop word makes ("below", "above": the rate
+	// shown below or above a target), empty when the rule that ended the point claims
+	// nothing (a bit or time cap, an error count).
+	Claim string `json:"claim,omitempty"`
 }
 
 // Tap is what one tap counted at a point, with its estimate.

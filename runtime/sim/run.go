@@ -165,6 +165,9 @@ func (x *Experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		return rp, err
 	}
 	rp = result.Point{Values: pt.Values, Frames: out.Frames, Stop: out.Stop, Seconds: out.Elapsed.Seconds()}
+	if c, ok := out.Rule.(interface{ Method() string }); ok {
+		rp.Claim = c.Method()
+	}
 	for i, name := range out.Taps {
 		var target int64
 		if et, ok := out.Rule.(*stop.ErrorTarget); ok && et.On == name {
