@@ -44,7 +44,10 @@ func Evidence(k, n int64, target float64, below bool) float64 {
 	} else {
 		prior = math.Exp(b * l1t)
 	}
-	if post <= 0 {
+	// A posterior share this small lies past what the incomplete beta routine resolves
+	// (gonum returns subnormal values there that are not the tail), and the counts lie far on
+	// the other side of the target, where M ≤ 1: no evidence.
+	if post < 1e-290 {
 		return math.Inf(-1)
 	}
 	return ln + math.Log(post) - math.Log(prior)

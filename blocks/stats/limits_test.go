@@ -84,3 +84,16 @@ func TestUpperLimitNoErrorsClosedForm(t *testing.T) {
 		}
 	}
 }
+
+// The two-sided interval keeps its upper end near confidence 1 too: with no errors it is
+// one-sided, 1 − (1−C)^(1/n) (Clopper and Pearson, Biometrika 26, 1934); for 590 trials at
+// C = 1 − 1e-15 that is 0.0568, where a Beta quantile routine asked for q = C returns 1.
+func TestClopperPearsonNearConfidenceOne(t *testing.T) {
+	for _, c := range []float64{1 - 1e-7, 1 - 1e-12, 1 - 1e-15} {
+		e, err := ClopperPearson(0, 590, c)
+		want := -math.Expm1(math.Log(1-c) / 590)
+		if err != nil || math.Abs(e.High/want-1) > 1e-9 {
+			t.Errorf("conf %v: high %v (%v), want %v", c, e.High, err, want)
+		}
+	}
+}
