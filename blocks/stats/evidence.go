@@ -3,7 +3,9 @@ package stats
 import "math"
 
 // Evidence is the log of the mixture likelihood ratio that a rate lies below target (below
-// true) or above it, for k errors in n trials. It starts at 0 (no trials: no evidence) and
+// true) or above it, for k errors in n trials taken as independent. Errors that cluster
+// (bursts, decoder error events) break that assumption and with it the level of a claim:
+// the stop rules use FrameEvidence, which does not need it. It starts at 0 (no trials: no evidence) and
 // by Ville's inequality (Ville, Étude critique de la notion de collectif, 1939)
 //
 //	P(Evidence ever ≥ ln(1/α)) ≤ α
