@@ -19,6 +19,7 @@ func TestTargetWording(t *testing.T) {
 	}{
 		{"ebn0_db", 0.42, 1.5, []string{"needs 0.42 dB more than coherent", "needs 1.50 dB less than BPSK"}, []string{"at a"}},
 		{"ebn0_db", -0.1, -0.25, []string{"needs 0.10 dB less than coherent", "needs 0.25 dB more than BPSK"}, nil},
+		{"esn0_db", 0.004, 0, []string{"the same as coherent (within 0.01 dB)", "the same as BPSK (within 0.01 dB)"}, []string{"0.00"}},
 		{"offset", 0.03, 0.012, []string{"at a higher offset than coherent (by 0.03)", "at a lower offset than BPSK (by 0.012)"}, []string{"dB", "needs"}},
 		{"rolloff", -0.03, 0, []string{"at a lower rolloff than coherent (by 0.03)", "at the same rolloff as BPSK"}, []string{"dB", "needs"}},
 		{"drift_ppm", 2.5, -1, []string{"at a higher drift_ppm than coherent (by 2.5 ppm)", "at a higher drift_ppm than BPSK (by 1 ppm)"}, []string{"dB"}},

@@ -68,6 +68,9 @@ func axisValue(v float64, unit string) string {
 func distance(param string, d float64, than string) string {
 	unit := AxisUnit(param)
 	if snrLike(param) {
+		if math.Abs(d) < 0.005 && (unit == "dB" || unit == "dB-Hz") {
+			return fmt.Sprintf("the same as %s (within 0.01 %s)", than, unit)
+		}
 		more := "more"
 		if d < 0 {
 			more = "less"
