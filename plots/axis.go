@@ -1,11 +1,14 @@
 package plots
 
 import (
+	"cmp"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
 	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 )
@@ -63,19 +66,61 @@ func ValueLabel(param, value string) string {
 	return l + " " + value
 }
 
-// sweepTicks labels every swept value when there are few enough to read, else nil (the
-// default ticks).
+// sweepTicks marks every swept value, labelled in its shortest exact form, when there are
+// few enough to mark (else nil: the default ticks). Labels are thinned at drawing time so
+// that no two overlap (see sweepTicker).
 func sweepTicks(values []float64) plot.Ticker {
 	seen := map[float64]bool{}
-	var t plot.ConstantTicks
+	t := &sweepTicker{font: sans(8.5)}
 	for _, v := range values {
 		if !seen[v] {
 			seen[v] = true
-			t = append(t, plot.Tick{Value: v, Label: strconv.FormatFloat(v, 'g', -1, 64)})
+			t.ticks = append(t.ticks, plot.Tick{Value: v, Label: strconv.FormatFloat(v, 'g', -1, 64)})
 		}
 	}
-	if len(t) > 12 {
+	if len(t.ticks) > 60 {
 		return nil
+	}
+	slices.SortFunc(t.ticks, func(a, b plot.Tick) int { return cmp.Compare(a.Value, b.Value) })
+	return t
+}
+
+// sweepTicker is a tick at every swept value; it labels every k-th one, k the smallest stride
+// at which neighbouring labels keep a gap on an axis width wide (the rest stay as minor
+// ticks). Figure.draw sets width to a lower bound of the panel's data width before drawing;
+// with width 0 every tick is labelled.
+type sweepTicker struct {
+	ticks []plot.Tick
+	font  font.Font
+	width vg.Length
+}
+
+// labelGap is the least space between two tick labels.
+const labelGap = vg.Length(4)
+
+func (s *sweepTicker) Ticks(lo, hi float64) []plot.Tick {
+	t := slices.Clone(s.ticks)
+	if s.width <= 0 || hi <= lo || len(t) < 2 {
+		return t
+	}
+	st := textStyle(s.font, ink)
+	x := func(v float64) vg.Length { return vg.Length((v-lo)/(hi-lo)) * s.width }
+	fits := func(k int) bool {
+		for i := 0; i+k < len(t); i += k {
+			a, b := t[i], t[i+k]
+			if x(b.Value)-x(a.Value) < (st.Width(a.Label)+st.Width(b.Label))/2+labelGap {
+				return false
+			}
+		}
+		return true
+	}
+	k := 1
+	for ; k < len(t) && !fits(k); k++ {
+	}
+	for i := range t {
+		if i%k != 0 {
+			t[i].Label = ""
+		}
 	}
 	return t
 }

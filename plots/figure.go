@@ -63,6 +63,12 @@ func (f *Figure) draw(c draw.Canvas) {
 	tiles := draw.Tiles{Rows: 1, Cols: len(f.Panels), PadX: 3 * pad}
 	row := [][]*plot.Plot{f.Panels}
 	for i, pc := range plot.Align(row, tiles, area)[0] {
+		if t, ok := f.Panels[i].X.Tick.Marker.(*sweepTicker); ok {
+			// A lower bound of the data width: the panel less the y axis (its label, the room
+			// for its tick labels, the ticks) and a margin.
+			y := f.Panels[i].Y
+			t.width = pc.Max.X - pc.Min.X - y.Label.Padding - y.Tick.Length - 3*y.Label.TextStyle.Height("0") - 30
+		}
 		f.Panels[i].Draw(pc)
 	}
 }

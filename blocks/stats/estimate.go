@@ -10,9 +10,12 @@
 // error, a one-sided lower bound and an upper limit of 1. Counts up to 2⁶² are handled
 // (see beta.go for how, past gonum's range).
 //
-// Evidence is the anytime-valid test behind the stop rules that claim a rate below or above
-// a target. AtTarget reads the swept value where a curve reaches a BER, with an interval,
-// and Penalty its distance from a theory curve.
+// FrameEvidence is the anytime-valid test behind the stop rules that claim a rate below or
+// above a target, valid however errors cluster within frames (Evidence is the same question
+// for bits taken as independent). UpperLimit is the one-sided exact limit that answers "is
+// the rate at most x shown?". BurstTest judges whether errors come in bursts. AtTarget reads
+// the swept value where a curve reaches a BER, with an interval, and Penalty its distance
+// from a theory curve.
 package stats
 
 import (

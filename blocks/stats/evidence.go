@@ -3,7 +3,9 @@ package stats
 import "math"
 
 // Evidence is the log of the mixture likelihood ratio that a rate lies below target (below
-// true) or above it, for k errors in n trials. It starts at 0 (no trials: no evidence) and
+// true) or above it, for k errors in n trials taken as independent. Errors that cluster
+// (bursts, decoder error events) break that assumption and with it the level of a claim:
+// the stop rules use FrameEvidence, which does not need it. It starts at 0 (no trials: no evidence) and
 // by Ville's inequality (Ville, Étude critique de la notion de collectif, 1939)
 //
 //	P(Evidence ever ≥ ln(1/α)) ≤ α
@@ -44,7 +46,10 @@ func Evidence(k, n int64, target float64, below bool) float64 {
 	} else {
 		prior = math.Exp(b * l1t)
 	}
-	if post <= 0 {
+	// A posterior share this small lies past what the incomplete beta routine resolves
+	// (gonum returns subnormal values there that are not the tail), and the counts lie far on
+	// the other side of the target, where M ≤ 1: no evidence.
+	if post < 1e-290 {
 		return math.Inf(-1)
 	}
 	return ln + math.Log(post) - math.Log(prior)

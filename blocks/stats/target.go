@@ -16,6 +16,9 @@ type Crossing struct {
 	X, Low, High float64 // swept value at the target, and its interval
 }
 
+// CrossingMethod names AtTarget's method in run records.
+const CrossingMethod = "log-linear interpolation between the bracketing points; interval from the points' limits (monotonic curve assumed)"
+
 // AtTarget reads the swept value where the estimates est at the swept values x (strictly
 // monotonic, same length) reach target. Between two points log10 BER is taken as linear in
 // x (a straight segment on the usual BER plot); X is the first crossing walking the curve

@@ -14,23 +14,27 @@ const DefaultConfidence = 0.95
 
 // ShownBelow ends a point once its rate is shown below Target: the chance that a point whose
 // rate is not below Target ever ends this way is at most 1 − Confidence, however long it
-// runs, since the rule is judged after every frame. The test holds for counted errors only:
-// on a tap estimated with weights (link.Estimator) it is never met, since no test of ours
-// stays valid there under repeated looks.
+// runs and however its errors cluster within frames (bursts, decoder error events, cycle
+// slips), since the rule is judged after every frame on a test that allows for both. It
+// assumes only that frames are independent, which the engine guarantees.
+// The test holds for counted errors only: on a tap estimated with weights (link.Estimator)
+// it is never met, since no test of ours stays valid there under repeated looks.
 //
 // Why not "the interval's High < Target": each look at a fixed-n interval is one more chance
 // of a false claim (repeated significance tests; Armitage, McPherson and Rowe, J. R. Stat.
 // Soc. A 132, 1969). For a rate equal to the target, judged after each of 10 000 frames,
 // "High < target or Low > target" at 95 % ends about half of the points (our runs of it),
-// not 5 %.
+// not 5 %. And why not a test on bits taken as independent (a likelihood ratio on the bit
+// count, stats.Evidence): with errors in bursts of 20 bits at twice the target it claims
+// "below" on most points, before the first burst comes.
 //
-// The rule is stats.Evidence ≥ ln(1/(1−Confidence)), Robbins' mixture likelihood ratio
-// with Ville's inequality: see there for the model.
+// The rule is stats.FrameEvidence ≥ ln(1/(1−Confidence)): a supermartingale on the frames'
+// error counts with Ville's inequality; see there for the model and the method.
 //
-// The price of looking as often as we like is a few more bits than a single look needs:
-// with no errors the claim comes after about 4.2/Target bits at 95 % (one look, the rule
-// of three, needs 3/Target), and with errors after about 1.2 to 1.4 times the bits of a
-// single-look test.
+// The price of assuming nothing about clustering: with no errors the claim needs about
+// 3.7/Target frames at 95 % (a frame could be one that fails whole), so short frames, or the
+// frame tap, claim "below" soonest. A point that ends on a bit or time cap claims nothing:
+// its stop word says only that the cap was reached.
 type ShownBelow struct {
 	Target     float64 // rate to be shown below, in (0, 1)
 	On         string  // tap; link.TapBER by default
@@ -48,7 +52,8 @@ func (r *ShownBelow) Tap(name string) *ShownBelow { r.On = name; return r }
 // Level sets the confidence of the claim, in (0, 1).
 func (r *ShownBelow) Level(confidence float64) *ShownBelow { r.Confidence = confidence; return r }
 
-// Met is true once the evidence M for a rate below Target reaches 1/(1 − Confidence).
+// Met is true once the frame-level evidence M for a rate below Target reaches
+// 1/(1 − Confidence).
 func (r *ShownBelow) Met(p *Progress) bool {
 	t, _ := p.Tap(r.On)
 	return r.Err() == nil && t.Estimator == link.Count && Evidence(t, r.Target, true) >= -math.Log(1-r.Confidence)
@@ -66,8 +71,10 @@ func (r *ShownBelow) Err() error {
 }
 
 // ShownAbove ends a point once its rate is shown above Target: the chance that a point whose
-// rate is not above Target ever ends this way is at most 1 − Confidence. It is ShownBelow's
-// test with the mixture over (Target, 1).
+// rate is not above Target ever ends this way is at most 1 − Confidence, however long it runs
+// and however its errors cluster within frames. It is ShownBelow's frame-level test in the
+// other direction; with errors it needs about the bits a test on independent bits needs,
+// more in proportion to the clustering.
 type ShownAbove struct {
 	Target     float64 // rate to be shown above, in (0, 1)
 	On         string  // tap; link.TapBER by default
@@ -85,7 +92,8 @@ func (r *ShownAbove) Tap(name string) *ShownAbove { r.On = name; return r }
 // Level sets the confidence of the claim, in (0, 1).
 func (r *ShownAbove) Level(confidence float64) *ShownAbove { r.Confidence = confidence; return r }
 
-// Met is true once the evidence M for a rate above Target reaches 1/(1 − Confidence).
+// Met is true once the frame-level evidence M for a rate above Target reaches
+// 1/(1 − Confidence).
 func (r *ShownAbove) Met(p *Progress) bool {
 	t, _ := p.Tap(r.On)
 	return r.Err() == nil && t.Estimator == link.Count && Evidence(t, r.Target, false) >= -math.Log(1-r.Confidence)
@@ -102,10 +110,21 @@ func (r *ShownAbove) Err() error {
 	return checkConfidence("stop.Above", r.Confidence)
 }
 
-// Evidence is stats.Evidence for a tap's counts: the log evidence that its rate lies below
-// (below true) or above target, which Below and Above compare with ln(1/(1−Confidence)).
+// Evidence is stats.FrameEvidence for a tap's counts: the log evidence that its rate lies
+// below (below true) or above target, which Below and Above compare with
+// ln(1/(1−Confidence)).
 func Evidence(t link.Tally, target float64, below bool) float64 {
-	return stats.Evidence(t.Errors, t.Trials, target, below)
+	return stats.FrameEvidence(t, target, below)
+}
+
+// Method names the test behind a claim of Below or Above, for the run record.
+func (r *ShownBelow) Method() string { return claimMethod(r.Confidence) }
+
+// Method names the test behind a claim of Below or Above, for the run record.
+func (r *ShownAbove) Method() string { return claimMethod(r.Confidence) }
+
+func claimMethod(confidence float64) string {
+	return fmt.Sprintf("%s, at %g %% confidence", stats.FrameEvidenceMethod, 100*confidence)
 }
 
 func checkRate(rule string, target float64) error {

@@ -52,8 +52,7 @@ func TestClaimsHoldUnderRepeatedLooks(t *testing.T) {
 		pr := &stop.Progress{Taps: []string{link.TapBER}, Counts: make([]link.Tally, 1)}
 		for f := 0; f < frames; f++ {
 			c := &pr.Counts[0]
-			c.Errors += s.upTo(c.Trials + frame)
-			c.Trials += frame
+			c.Add(link.Tally{Trials: frame, Errors: s.upTo(c.Trials + frame)})
 			pr.Frames++
 			if below.Met(pr) {
 				nb++
@@ -77,26 +76,27 @@ func TestClaimsHoldUnderRepeatedLooks(t *testing.T) {
 	}
 }
 
-// A claim valid at any time is valid at a fixed time: with no errors it cannot come before
-// the single-look bound −ln(α)/t ≈ 3/t (rule of three; Hanley and Lippman-Hand, JAMA 249,
-// 1983). And true rates well away from the target are shown: 1/4 of it within 40/t bits,
-// 4 times it within 10/t.
+// A claim valid at any time is valid at a fixed time: with no errors, under clustering
+// within frames a frame may fail whole, so the claim cannot come before the single-look bound
+// on frames −ln(α)/t ≈ 3/t (rule of three on the frame count; Hanley and Lippman-Hand, JAMA
+// 249, 1983). And true rates well away from the target are shown: 1/4 of it within 6/t
+// frames, 4 times it within 10/t bits (errors one per frame, 1000-bit frames).
 func TestClaimsNeedEvidence(t *testing.T) {
 	const target = 1e-5
 	for _, conf := range []float64{0.9, 0.95, 0.99} {
-		single := -math.Log(1-conf) / target
-		if stop.Below(target).Level(conf).Met(at(0, int64(single*0.999), 0, 1)) {
-			t.Errorf("at %v, shown below with no errors in fewer bits than the single-look %.3g", conf, single)
+		single := int64(-math.Log(1-conf) / target * 0.999)
+		if stop.Below(target).Level(conf).Met(at(0, single*1000, 0, single)) {
+			t.Errorf("at %v, shown below with no errors in fewer frames than the single-look %d", conf, single)
 		}
 	}
-	// The mean counts of a rate of target/4 over 40/target bits, and of 4·target over 10/target.
-	if !stop.Below(target).Met(at(10, 40/target, 0, 1)) {
-		t.Error("10 errors in 4e6 bits not shown below 1e-5")
+	// The mean counts of a rate of target/4 over 6/target frames, and of 4·target over 10/target bits.
+	if !stop.Below(target).Met(at(150, 6e8, 0, 6e5)) {
+		t.Error("150 errors in 6e8 bits (6e5 frames) not shown below 1e-5")
 	}
-	if !stop.Above(target).Met(at(40, 10/target, 0, 1)) {
+	if !stop.Above(target).Met(at(40, 10/target, 0, 1000)) {
 		t.Error("40 errors in 1e6 bits not shown above 1e-5")
 	}
-	if stop.Below(target).Met(at(40, 10/target, 0, 1)) || stop.Above(target).Met(at(10, 40/target, 0, 1)) {
+	if stop.Below(target).Met(at(40, 10/target, 0, 1000)) || stop.Above(target).Met(at(150, 6e8, 0, 6e5)) {
 		t.Error("a claim against the evidence")
 	}
 }

@@ -6,11 +6,17 @@
 // Point rules, by the word the table's stop column shows when they end a point:
 //
 //	errors     Errors(n): a tap counted n errors (inverse sampling; see stats.InverseSampling)
-//	bits       Bits(n): the BER tap counted n bits
-//	time       Time(d): wall time d (the one rule a replay cannot see)
+//	bits       Bits(n): the BER tap counted n bits — a cap: it claims nothing
+//	time       Time(d): wall time d (the one rule a replay cannot see) — a cap: it claims nothing
 //	precision  Precision(r): High/Low ≤ r
-//	below      Below(t): High < t
-//	above      Above(t): Low > t
+//	below      Below(t): the rate is shown below t — the frame-level anytime test
+//	           (stats.FrameEvidence) reached ln(1/(1−confidence)); a false claim has
+//	           probability at most 1 − confidence, judged after every frame, with errors
+//	           clustered in any way within frames
+//	above      Above(t): the rate is shown above t, by the same test the other way
+//
+// Only below and above are claims. The interval the table gives a point is valid for the
+// rule that ended it (see stats.ForFrames), whichever that was.
 //
 // Off the BER tap (.Tap("fer")) the word is prefixed with the tap: "fer_errors". Sweep rules
 // (SweepRule: Floor, Budget) decide between points whether the next one is worth running.

@@ -13,10 +13,17 @@ import (
 
 // at is a committed state with the BER tap at (errors, bits) and the FER tap at (ferrs, frames).
 func at(errors, bits, ferrs, frames int64) *stop.Progress {
+	// The errors spread over the frames as evenly as they go.
+	var sq int64
+	if frames > 0 {
+		q, r := errors/frames, errors%frames
+		sq = r*(q+1)*(q+1) + (frames-r)*q*q
+	}
 	return &stop.Progress{
 		Frames: frames,
 		Taps:   []string{link.TapBER, link.TapFER},
-		Counts: []link.Tally{{Trials: bits, Errors: errors}, {Trials: frames, Errors: ferrs}},
+		Counts: []link.Tally{{Trials: bits, Errors: errors, Frames: frames, Squares: sq},
+			{Trials: frames, Errors: ferrs, Frames: frames, Squares: ferrs}},
 	}
 }
 
@@ -46,14 +53,16 @@ func ExamplePrecision() {
 // look needs (the rule of three; Hanley and Lippman-Hand, JAMA 249, 1983), the price of a
 // claim that stays valid however often it is judged.
 func ExampleBelow() {
-	r := stop.Below(1e-6)
-	fmt.Println(r.Name(), r.Met(at(0, 4.1e6, 0, 1000)), r.Met(at(0, 4.3e6, 0, 1050)))
+	// No errors in 1000-bit frames: shown below 1e-3 after about 3.7/1e-3 frames, whatever
+	// the clustering might have been.
+	r := stop.Below(1e-3)
+	fmt.Println(r.Name(), r.Met(at(0, 3.6e6, 0, 3600)), r.Met(at(0, 3.8e6, 0, 3800)))
 	// Output: below false true
 }
 
 func ExampleAbove() {
 	r := stop.Above(1e-3).Tap(link.TapFER)
-	fmt.Println(r.Name(), r.Met(at(0, 1e6, 0, 0)), r.Met(at(50, 1e7, 30, 10000)))
+	fmt.Println(r.Name(), r.Met(at(0, 1e6, 0, 0)), r.Met(at(50, 1e7, 35, 10000)))
 	// Output: fer_above false true
 }
 
@@ -95,9 +104,12 @@ func TestNoJudgementOnZeroBits(t *testing.T) {
 			}
 		}
 	}
-	// And they do judge once there is something: one frame with errors.
-	if !stop.Above(1e-300).Met(at(10, 4096, 1, 1)) {
-		t.Error("Above(1e-300) not met with 10 errors in 4096 bits")
+	// And they do judge once there is something: 20 frames of 4096 bits with 10 errors each.
+	// (One frame cannot show a rate above anything at 95 % when errors may cluster: by
+	// Markov's inequality a single frame holds that share of errors with probability up to
+	// the target over the share.)
+	if !stop.Above(1e-3).Met(at(200, 20*4096, 20, 20)) {
+		t.Error("Above(1e-3) not met with 200 errors in 20 frames of 4096 bits")
 	}
 }
 

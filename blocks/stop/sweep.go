@@ -34,7 +34,7 @@ func Floor(ber float64) *FloorRule { return &FloorRule{Floor: ber} }
 func (r *FloorRule) Skip(done []Outcome, next float64) (bool, string) {
 	for _, o := range done {
 		if o.Tally.Trials > 0 && o.Estimate.High < r.Floor {
-			return true, fmt.Sprintf("the point at %g is below the floor %g (BER ≤ %.2g)", o.X, r.Floor, o.Estimate.High)
+			return true, fmt.Sprintf("the interval of the point at %g lies below the floor %g (upper limit %.2g)", o.X, r.Floor, o.Estimate.High)
 		}
 	}
 	return false, ""

@@ -35,7 +35,7 @@ func ExampleFloor() {
 	// Output:
 	// false
 	// false
-	// true the point at 10 is below the floor 1e-06 (BER ≤ 7.5e-07)
+	// true the interval of the point at 10 lies below the floor 1e-06 (upper limit 7.5e-07)
 }
 
 func ExampleBudget() {

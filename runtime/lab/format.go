@@ -32,8 +32,8 @@ func percent(c float64) string {
 	return s + " %"
 }
 
-// duration writes seconds the way a person says them: 40 ms, 12 s, 5 min 2 s, 3 h 20 min,
-// 4.2 days, 31 years.
+// duration writes seconds the way a person says them, rounded up (a test time must not be
+// shown shorter than it is): 40 ms, 12 s, 5 min 0 s, 3 h 20 min, 4.21 days, 31 years.
 func duration(s float64) string {
 	const (
 		minute = 60.0
@@ -43,23 +43,37 @@ func duration(s float64) string {
 	)
 	switch {
 	case s < 1e-6:
-		return fmt.Sprintf("%.3g ns", s*1e9)
+		return ceilSig(s*1e9, 3) + " ns"
 	case s < 1e-3:
-		return fmt.Sprintf("%.3g µs", s*1e6)
+		return ceilSig(s*1e6, 3) + " µs"
 	case s < 1:
-		return fmt.Sprintf("%.3g ms", s*1e3)
+		return ceilSig(s*1e3, 3) + " ms"
 	case s < minute:
-		return fmt.Sprintf("%.3g s", s)
+		return ceilSig(s, 3) + " s"
 	case s < hour:
-		m := math.Floor(s / minute)
-		return fmt.Sprintf("%.0f min %.0f s", m, math.Floor(s-m*minute))
+		t := math.Ceil(s)
+		m := math.Floor(t / minute)
+		return fmt.Sprintf("%.0f min %.0f s", m, t-m*minute)
 	case s < day:
-		h := math.Floor(s / hour)
-		return fmt.Sprintf("%.0f h %.0f min", h, math.Floor((s-h*hour)/minute))
+		t := math.Ceil(s / minute)
+		h := math.Floor(t / 60)
+		return fmt.Sprintf("%.0f h %.0f min", h, t-h*60)
 	case s < year:
-		return fmt.Sprintf("%.3g days", s/day)
+		return ceilSig(s/day, 3) + " days"
 	}
-	return fmt.Sprintf("%.3g years", s/year)
+	return ceilSig(s/year, 3) + " years"
+}
+
+// ceilSig writes v > 0 rounded up to sig significant digits: ceilSig(4.991, 3) = "5",
+// ceilSig(299.57, 3) = "300".
+func ceilSig(v float64, sig int) string {
+	if !(v > 0) || math.IsInf(v, 0) {
+		return strconv.FormatFloat(v, 'g', sig, 64)
+	}
+	e := math.Floor(math.Log10(v)) - float64(sig-1)
+	scale := math.Pow(10, e)
+	u := math.Ceil(v/scale*(1-1e-12)) * scale // (1−1e-12): a value already on the grid stays
+	return strconv.FormatFloat(u, 'g', sig, 64)
 }
 
 // lineRate writes bits per second in the trade's units: 10 Gbit/s, 2.5 Mbit/s.

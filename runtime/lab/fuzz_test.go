@@ -25,6 +25,11 @@ func check(t *testing.T, name string, cmd func(string) (int, string, string), ar
 		if errs == "" || out != "" {
 			t.Errorf("%s %q: exit 2 with stdout %q, stderr %q", name, args, out, errs)
 		}
+		for _, lib := range libraryWords {
+			if strings.Contains(errs, lib) {
+				t.Errorf("%s %q: library wording %q in %q", name, args, lib, errs)
+			}
+		}
 	default:
 		t.Errorf("%s %q: exit %d", name, args, code)
 	}

@@ -117,13 +117,6 @@ func (c *command) printJSON(v any) int {
 	return exitOK
 }
 
-func checkConfidence(v float64) error {
-	if !(v > 0 && v < 1) {
-		return fmt.Errorf("-confidence %v must lie strictly between 0 and 1 (0.95 is 95 %%)", v)
-	}
-	return nil
-}
-
 func checkBER(v float64) error {
 	if !(v > 0 && v < 1) {
 		return fmt.Errorf("-ber %v must lie strictly between 0 and 1", v)
@@ -132,13 +125,58 @@ func checkBER(v float64) error {
 }
 
 // guard runs a computation and turns a panic of the numerical routines (gonum panics on
-// some extreme arguments, e.g. a confidence of 1e-300) into an error.
-func guard(f func()) (err error) {
+// some extreme arguments) into an error; the panic's own words are not shown to a user.
+func guard(f func() error) (err error) {
 	defer func() {
 		if v := recover(); v != nil {
-			err = fmt.Errorf("cannot compute for these values (%v)", v)
+			err = errNoAnswer
 		}
 	}()
-	f()
+	return f()
+}
+
+// rate is a flag holding a line rate in bit/s, typed as a number (10e9) or with an SI
+// prefix (10G, 2.5G, 100M, 64k), optionally followed by "bit/s", "b/s" or "bps".
+type rate struct {
+	v   float64
+	set bool
+}
+
+func (r *rate) String() string {
+	if r == nil || !r.set {
+		return ""
+	}
+	return strconv.FormatFloat(r.v, 'g', -1, 64)
+}
+
+func (r *rate) Set(s string) error {
+	t := strings.TrimSpace(s)
+	for _, unit := range []string{"bit/s", "b/s", "bps"} {
+		if strings.HasSuffix(strings.ToLower(t), unit) {
+			t = strings.TrimSpace(t[:len(t)-len(unit)])
+			break
+		}
+	}
+	scale := 1.0
+	if n := len(t); n > 0 {
+		switch t[n-1] {
+		case 'k', 'K':
+			scale = 1e3
+		case 'M':
+			scale = 1e6
+		case 'G':
+			scale = 1e9
+		case 'T':
+			scale = 1e12
+		}
+		if scale != 1 {
+			t = t[:n-1]
+		}
+	}
+	v, err := strconv.ParseFloat(t, 64)
+	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+		return errors.New("not a line rate (bits per second: 10e9, 10G, 2.5G, 100M)")
+	}
+	r.v, r.set = v*scale, true
 	return nil
 }

@@ -37,22 +37,27 @@ func TestBitsToClaimPoissonLimits(t *testing.T) {
 	}
 }
 
-// The rule of three (Hanley and Lippman-Hand, JAMA 249, 1983) in closed form: with no errors,
-// −ln(1 − confidence)/BER; and the Poisson probability of at most k errors at that many bits
-// (gonum's Poisson distribution) is 1 − confidence.
-func TestBitsToClaimPoisson(t *testing.T) {
+// With no errors the fewest bits have a closed form: the one-sided Clopper–Pearson limit
+// 1 − (1−C)^(1/n) reaches the BER at n = ln(1 − C)/ln(1 − BER) (Clopper and Pearson,
+// Biometrika 26, 1934; ≈ −ln(1 − C)/BER, the rule of three at 95 %, Hanley and
+// Lippman-Hand, JAMA 249, 1983). With k errors the Poisson probability of at most k errors
+// at that many bits (gonum's Poisson distribution; the binomial differs from it by about
+// BER·k relative) is 1 − confidence. The reverse gives back the confidence, and one bit
+// fewer does not reach it.
+func TestBitsToClaimBinomial(t *testing.T) {
 	for _, conf := range []float64{0.9, 0.95, 0.99} {
-		n := lab.BitsToClaim(1e-9, conf, 0)
-		if want := -math.Log(1-conf) / 1e-9; math.Abs(n-want) > 1 {
-			t.Errorf("conf %v: %v bits, want %v", conf, n, want)
+		for _, ber := range []float64{1e-9, 1e-3} {
+			n := lab.BitsToClaim(ber, conf, 0)
+			if want := math.Ceil(math.Log(1-conf) / math.Log1p(-ber)); n != want {
+				t.Errorf("conf %v, BER %g: %v bits, want %v", conf, ber, n, want)
+			}
 		}
 		for _, k := range []int64{0, 1, 5, 20, 100} {
 			n := lab.BitsToClaim(1e-9, conf, k)
 			if p := (distuv.Poisson{Lambda: n * 1e-9}).CDF(float64(k)); math.Abs(p-(1-conf)) > 1e-6 {
 				t.Errorf("conf %v, k=%d: P(≤ k errors in %v bits) = %g, want %g", conf, k, n, p, 1-conf)
 			}
-			// The reverse gives back the confidence; one bit in 10⁶ less does not reach it.
-			if c := lab.ConfidenceReached(1e-9, k, n); c < conf || lab.ConfidenceReached(1e-9, k, n*(1-1e-6)) >= conf {
+			if c := lab.ConfidenceReached(1e-9, k, n); c < conf || lab.ConfidenceReached(1e-9, k, n-1) >= conf {
 				t.Errorf("conf %v, k=%d: reverse %v", conf, k, c)
 			}
 		}
@@ -61,7 +66,7 @@ func TestBitsToClaimPoisson(t *testing.T) {
 
 func TestPlanOutput(t *testing.T) {
 	code, out, _ := plan("-ber 1e-12 -rate 10e9")
-	if code != 0 || !strings.Contains(out, "2 995 732 273 554 bits") || !strings.Contains(out, "10 Gbit/s") || !strings.Contains(out, "4 min 59 s") {
+	if code != 0 || !strings.Contains(out, "2 995 732 273 553 bits") || !strings.Contains(out, "10 Gbit/s") || !strings.Contains(out, "5 min 0 s") {
 		t.Errorf("exit %d:\n%s", code, out)
 	}
 	code, out, _ = plan("-ber 1e-12 -errors 3 -rate 25e9 -json")

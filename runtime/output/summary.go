@@ -3,7 +3,6 @@ package output
 import (
 	"bytes"
 	"fmt"
-	"math"
 	"strings"
 
 	"tally/runtime/result"
@@ -95,20 +94,14 @@ func targetLine(r *result.Run, t result.Target) string {
 	if !t.Found {
 		return fmt.Sprintf("%s = %g%s: not bracketed by the sweep (%s)", t.Tap, t.Rate, where, t.Note)
 	}
-	s := fmt.Sprintf("%s = %g%s at %s = %.2f, interval [%s, %s]", t.Tap, t.Rate, where, x, t.X, end(t.Low), end(t.High))
+	unit := AxisUnit(x)
+	s := fmt.Sprintf("%s = %g%s at %s = %s, interval [%s, %s]", t.Tap, t.Rate, where, x,
+		axisValue(t.X, unit), axisValue(t.Low, unit), axisValue(t.High, unit))
 	if t.Against != "" && t.Note == "" {
-		more := "more"
-		if t.Penalty < 0 {
-			more = "less"
-		}
-		s += fmt.Sprintf("; needs %.2f dB %s than %s", math.Abs(t.Penalty), more, t.Against)
+		s += "; " + distance(x, t.Penalty, t.Against)
 	}
 	if t.GainOver != "" {
-		less := "less"
-		if t.Gain < 0 {
-			less = "more"
-		}
-		s += fmt.Sprintf("; %.2f dB %s than %s", math.Abs(t.Gain), less, t.GainOver)
+		s += "; " + distance(x, -t.Gain, t.GainOver)
 	}
 	if t.Note != "" {
 		s += " (" + t.Note + ")"
@@ -117,12 +110,4 @@ func targetLine(r *result.Run, t result.Target) string {
 		s += " (" + t.Open + ")"
 	}
 	return s
-}
-
-// end is an end of a crossing's interval: "open" when the sweep does not close it.
-func end(v float64) string {
-	if math.IsInf(v, 0) || math.IsNaN(v) {
-		return "open"
-	}
-	return fmt.Sprintf("%.2f", v)
 }

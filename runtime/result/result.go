@@ -45,6 +45,10 @@ type Point struct {
 	Seconds float64   `json:"wall_seconds"`
 	BitRate float64   `json:"bits_per_second"`
 	Note    string    `json:"note,omitempty"` // why a point was skipped
+	// Claim names the test behind the claim the stop word makes ("below", "above": the rate
+	// shown below or above a target), empty when the rule that ended the point claims
+	// nothing (a bit or time cap, an error count).
+	Claim string `json:"claim,omitempty"`
 }
 
 // Tap is what one tap counted at a point, with its estimate.
@@ -58,7 +62,8 @@ type Tap struct {
 	Method string  `json:"method"`
 	Absent bool    `json:"absent,omitempty"` // the point's link has no such tap
 	// Dispersion is the spread of errors between frames against independent errors (1); the
-	// interval is widened ("+clustered" in Method) when it is shown above 1. 0: not judged.
+	// interval is widened ("+clustered" in Method) when the burst test shows it above 1. 0:
+	// not judged.
 	Dispersion float64 `json:"dispersion,omitempty"`
 	// Estimator names a tap's weighted estimator ("importance-sampling", "semi-analytic"; empty
 	// for counted errors, "not-estimated" for a tap the estimator does not serve); its interval
@@ -71,6 +76,9 @@ type Tap struct {
 	Effective    float64 `json:"effective_samples,omitempty"`
 	Degenerate   bool    `json:"degenerate,omitempty"`
 	PlainBits    float64 `json:"plain_bits_needed,omitempty"`
+	// BurstTest names the method that judged whether the errors came in bursts (see
+	// stats.BurstTest); the interval is widened only when that test says so.
+	BurstTest string `json:"burst_test,omitempty"`
 }
 
 // Weighted reports whether the tap was estimated with weights.
@@ -86,13 +94,19 @@ type Target struct {
 	Low     float64 `json:"x_low"`                // −Inf (null in run.json) when open below
 	High    float64 `json:"x_high"`               // +Inf (null in run.json) when open above
 	Against string  `json:"against,omitempty"`    // theory curve compared with
-	Penalty float64 `json:"penalty_db,omitempty"` // X minus the theory's value at the target
+	Penalty float64 `json:"penalty_db,omitempty"` // X minus the theory's value at the target, in Unit
 	TheoryX float64 `json:"theory_x,omitempty"`   // where the theory curve reaches the target
-	// Gain is how much less of the swept value (dB) this curve needs than the first curve,
-	// GainOver names it: the coding gain when the curves are uncoded and coded links.
+	// Gain is how much less of the swept value this curve needs than the first curve (in Unit;
+	// the JSON names keep "_db" from when every axis was taken to be in dB), GainOver names
+	// it: the coding gain when the curves are uncoded and coded links on an Eb/N0 axis.
 	Gain     float64 `json:"gain_db,omitempty"`
 	GainOver string  `json:"gain_over,omitempty"`
-	Note     string  `json:"note,omitempty"`
+	// Unit is the swept axis's unit, read from the parameter's name (ebn0_db: "dB",
+	// drift_ppm: "ppm"; "" for a name without one).
+	Unit string `json:"unit,omitempty"`
+	// Method says how X and its interval were found, the claim's method.
+	Method string `json:"method,omitempty"`
+	Note   string `json:"note,omitempty"`
 	// Open says why an end of the interval is open: the points' limits do not close it inside
 	// the sweep on that side.
 	Open string `json:"open,omitempty"`

@@ -26,9 +26,9 @@ import (
 // Version is tally's version, recorded in every run record.
 const Version = "0.1.0"
 
-// burstSignificance is the level of the index-of-dispersion test above which a tap's errors
-// count as bursty and its interval is widened: small, so independent errors are almost never
-// widened by chance.
+// burstSignificance is the level of the burst test (stats.BurstTest) at which a tap's errors
+// count as bursty and its interval is widened: small, so independent errors are widened by
+// chance in at most 1 point in 1000.
 const burstSignificance = 0.001
 
 // ErrInterrupted is the error of a run ended by Ctrl-C (its finished points are written).
@@ -194,6 +194,9 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		return rp, err
 	}
 	rp = result.Point{Values: pt.Values, Frames: out.Frames, Stop: out.Stop, Seconds: out.Elapsed.Seconds()}
+	if c, ok := out.Rule.(interface{ Method() string }); ok {
+		rp.Claim = c.Method()
+	}
 	for i, name := range out.Taps {
 		var target int64
 		if et, ok := out.Rule.(*stop.ErrorTarget); ok && et.On == name {
@@ -214,7 +217,8 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		}
 		// Errors shown to come in bursts break the independence every binomial interval rests
 		// on: widen the interval by the frames' dispersion rather than report it too narrow.
-		if stats.Bursty(c, burstSignificance) {
+		bursty, burstMethod := stats.BurstTest(c, burstSignificance)
+		if bursty {
 			if est, err = stats.Clustered(c, est, x.Confidence, x.Method); err != nil {
 				return rp, err
 			}
@@ -224,7 +228,7 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 			d = 0
 		}
 		rp.Taps = append(rp.Taps, result.Tap{Name: name, Trials: c.Trials, Errors: c.Errors,
-			Rate: est.Rate, Low: est.Low, High: est.High, Method: est.Method, Dispersion: d})
+			Rate: est.Rate, Low: est.Low, High: est.High, Method: est.Method, Dispersion: d, BurstTest: burstMethod})
 	}
 	if rp.Seconds > 0 && len(rp.Taps) > 0 {
 		rp.BitRate = float64(rp.Taps[0].Trials) / rp.Seconds

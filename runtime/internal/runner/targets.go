@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"tally/blocks/stats"
+	"tally/runtime/output"
 	"tally/runtime/result"
 )
 
@@ -31,7 +32,8 @@ func (x *experiment) findTargets(run *result.Run) {
 				xs = append(xs, p.Values[0])
 				est = append(est, stats.Estimate{Rate: tp.Rate, Low: tp.Low, High: tp.High})
 			}
-			tr := result.Target{Tap: t.Tap, Rate: t.Rate, Curve: c.label, Against: t.Against}
+			tr := result.Target{Tap: t.Tap, Rate: t.Rate, Curve: c.label, Against: t.Against,
+				Unit: output.AxisUnit(run.Params[0]), Method: stats.CrossingMethod}
 			cr, err := stats.AtTarget(xs, est, t.Rate)
 			if err != nil {
 				tr.Note = err.Error()
