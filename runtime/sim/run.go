@@ -120,6 +120,9 @@ func (x *Experiment) Execute() (*result.Run, error) {
 		run.Taps = unionTaps(run.Taps, rp.Taps)
 		run.Points = append(run.Points, rp)
 		x.report(pt, rp)
+		if o.Point != nil && rp.Stop != engine.Interrupted {
+			o.Point(run)
+		}
 		if rp.Stop == engine.Interrupted {
 			run.Interrupted = true
 			break
@@ -296,7 +299,11 @@ func (x *Experiment) write(r *result.Run) error {
 		return nil
 	}
 	dir := OutputDir(x.opts.Script)
-	if err := output.Write(dir, r); err != nil {
+	write := output.Write
+	if x.opts.Output != nil {
+		write = x.opts.Output
+	}
+	if err := write(dir, r); err != nil {
 		return err
 	}
 	return x.writtenLong(r)

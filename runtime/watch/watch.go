@@ -38,6 +38,9 @@ type Config struct {
 	Debounce time.Duration
 	// OnEvent, if set, is told of every step, on the watcher's goroutine.
 	OnEvent func(Event)
+	// Run makes one run (default host.Run, in this process; tally watch gives isolate.Run, a
+	// child process per run). It must end soon after ctx ends.
+	Run func(ctx context.Context, path string, cfg host.Config) error
 }
 
 // Kind is what happened to a watched file.
@@ -382,7 +385,11 @@ func (w *watcher) next() {
 	w.printf("%s: running\n", p)
 	w.emit(Event{Kind: Started, File: p})
 	go func() {
-		err := host.Run(ctx, p, cfg)
+		run := w.cfg.Run
+		if run == nil {
+			run = host.Run
+		}
+		err := run(ctx, p, cfg)
 		cancel()
 		w.done <- outcome{job: j, run: got, err: err}
 	}()
