@@ -310,3 +310,95 @@ func TestWorkersBounded(t *testing.T) {
 		}
 	}
 }
+
+// leakyScript starts a goroutine that touches marker every 10 ms for ever (it needs -trust for
+// os), then runs a short experiment; with crash, the goroutine panics instead.
+func leakyScript(marker string, crash bool) string {
+	body := fmt.Sprintf(`for { os.WriteFile(%q, []byte("alive"), 0o644); time.Sleep(10 * time.Millisecond) }`, marker)
+	if crash {
+		body = `panic("the helper goroutine failed")`
+	}
+	return fmt.Sprintf(`//go:build ignore
+
+package main
+
+import (
+	"os"
+	"time"
+
+	"tally/blocks/channel"
+	"tally/blocks/link"
+	"tally/blocks/modem"
+	"tally/blocks/source"
+	"tally/blocks/stop"
+	"tally/runtime/sim"
+)
+
+func helper() { %s }
+
+func main() {
+	go helper()
+	time.Sleep(50 * time.Millisecond)
+	x := sim.New("leaky")
+	x.Sweep("ebn0_db", 1, 2)
+	x.Link(func(p sim.Point) *link.Link {
+		m := modem.BPSK()
+		return link.Chain(source.Random(1024), m.Mod(), channel.AWGN(p.Get("ebn0_db")), m.Demod())
+	})
+	x.Stop(stop.Bits(1e4))
+	x.Run()
+}
+`, body)
+}
+
+// Under tally watch, goroutines a script starts end with its run, a script that crashes its
+// process leaves the watcher up, and the next save runs. Before, the goroutines of every run
+// kept running in the watcher (one more per save) and the crash ended the watcher.
+func TestWatchOutlivesItsRuns(t *testing.T) {
+	if testing.Short() {
+		t.Skip("starts processes")
+	}
+	bin := tallyBinary(t)
+	dir := t.TempDir()
+	marker := filepath.Join(dir, "alive")
+	exp := writeScript(t, dir, "leaky", leakyScript(marker, false))
+	cmd := exec.Command(bin, "watch", "-trust", "-workers", "1", exp)
+	var stdout, stderr lockedBuffer
+	cmd.Stdout, cmd.Stderr = &stdout, &stderr
+	if err := cmd.Start(); err != nil {
+		t.Fatal(err)
+	}
+	defer func() {
+		cmd.Process.Signal(os.Interrupt)
+		cmd.Wait()
+	}()
+	waitFor := func(what string, n int) {
+		t.Helper()
+		for deadline := time.Now().Add(60 * time.Second); strings.Count(stdout.String(), what) < n; time.Sleep(20 * time.Millisecond) {
+			if time.Now().After(deadline) {
+				t.Fatalf("no %q (%d) in time:\n%s\n%s", what, n, stdout.String(), stderr.String())
+			}
+		}
+	}
+	waitFor("points in", 1)
+	time.Sleep(100 * time.Millisecond)
+	os.Remove(marker)
+	time.Sleep(300 * time.Millisecond)
+	if _, err := os.Stat(marker); err == nil {
+		t.Error("a goroutine of the finished run still runs")
+	}
+
+	writeScript(t, dir, "leaky", leakyScript(marker, true))
+	waitFor("failed; the last good outputs are kept", 1)
+	if !strings.Contains(stdout.String(), "a goroutine of the script panicked: the helper goroutine failed") {
+		t.Errorf("the crash is not told:\n%s", stdout.String())
+	}
+	if goTrace.MatchString(stdout.String() + stderr.String()) {
+		t.Errorf("the watcher shows a Go trace:\n%s\n%s", stdout.String(), stderr.String())
+	}
+	writeScript(t, dir, "leaky", leakyScript(marker, false)+"\n// saved again\n")
+	waitFor("points in", 2)
+	if cmd.ProcessState != nil {
+		t.Errorf("the watcher ended: %v", cmd.ProcessState)
+	}
+}
