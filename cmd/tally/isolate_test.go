@@ -402,3 +402,15 @@ func TestWatchOutlivesItsRuns(t *testing.T) {
 		t.Errorf("the watcher ended: %v", cmd.ProcessState)
 	}
 }
+
+// A frame size far beyond the machine is refused at the script's line, naming the block, the
+// parameter, the value and the limit. Before, source.Random(1<<40) ended tally out of memory.
+func TestHugeFrameRefused(t *testing.T) {
+	dir := t.TempDir()
+	src := strings.Replace(crashScript("huge", "", ""), "source.Random(1024)", "source.Random(1<<40)", 1)
+	path := writeScript(t, dir, "huge", src)
+	code, _, stderr := run("run", "-quiet", path)
+	if code != 1 || !regexp.MustCompile(`huge\.go:\d+:\d+: source\.Random: n = 1099511627776 bits per frame is above the limit of 4194304`).MatchString(stderr) {
+		t.Errorf("exit %d, %q; want 1 and the refusal at the script's line", code, stderr)
+	}
+}
