@@ -14,7 +14,7 @@ import (
 // names the interpreter's internals, not the script. resumable says whether a rerun of the
 // same script may get further (a race between workers, a kill, memory) or not (recursion).
 func crashMessage(stderr []byte, werr error) (msg string, resumable bool) {
-	fatal, panicked := "", ""
+	fatal, panicked, trace := "", "", string(stderr)
 	sc := bufio.NewScanner(bytes.NewReader(stderr))
 	sc.Buffer(make([]byte, 0, 64<<10), 1<<20)
 	for sc.Scan() {
@@ -25,7 +25,7 @@ func crashMessage(stderr []byte, werr error) (msg string, resumable bool) {
 		case strings.Contains(line, "goroutine stack exceeds"):
 			fatal = "stack overflow"
 		case panicked == "" && strings.HasPrefix(line, "panic: "):
-			panicked = strings.TrimSuffix(strings.TrimPrefix(line, "panic: "), " [recovered]")
+			panicked = strings.TrimPrefix(line, "panic: ")
 			if i := strings.Index(panicked, " [recovered"); i > 0 {
 				panicked = panicked[:i]
 			}
@@ -42,10 +42,14 @@ func crashMessage(stderr []byte, werr error) (msg string, resumable bool) {
 		return "the script's goroutines all wait for each other (deadlock)", false
 	case fatal != "":
 		return "the run crashed: " + fatal, true
-	case panicked != "" && strings.Contains(string(stderr), "yaegi/interp.(*Interpreter)") && !strings.Contains(string(stderr), "yaegi/interp.runCfg"):
+	case panicked != "" && strings.Contains(trace, "interp._panic"):
+		return "a goroutine of the script panicked: " + panicked + " (a panic outside the experiment's own calls ends the run)", false
+	case strings.HasPrefix(panicked, "runtime error: "):
+		return "a goroutine of the script failed: " + panicked, false
+	case panicked != "" && strings.Contains(trace, "yaegi"):
 		return "the interpreter failed on a construct of the script (" + panicked + "); simplify it (generic code is the usual cause), or run the script with go run", false
 	case panicked != "":
-		return "a goroutine of the script panicked: " + panicked + " (a panic outside the experiment's own calls ends the run)", false
+		return "the run crashed: " + panicked, false
 	}
 	var ee *exec.ExitError
 	if errors.As(werr, &ee) && !ee.Exited() {
