@@ -14,6 +14,7 @@ import (
 	"sort"
 
 	"tally/runtime/host"
+	"tally/runtime/isolate"
 	"tally/runtime/longrun"
 	"tally/runtime/sim"
 )
@@ -75,6 +76,12 @@ func mergeCmd(args []string, stdout, stderr io.Writer) int {
 	}
 	set := &longrun.Settings{Replay: m}
 	cfg := host.Config{Workers: 1, Seed: m.Seed, SeedSet: true, Quiet: *quiet, Trust: *trust, Log: stderr, Long: set}
+	release, err := isolate.Lock(sim.OutputDir(path), ".lock")
+	if err != nil {
+		fmt.Fprintln(stderr, "tally merge:", err)
+		return 1
+	}
+	defer release()
 	ctx, stopSignals := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stopSignals()
 	err = host.Run(ctx, path, cfg)

@@ -36,11 +36,11 @@ type runFlags struct {
 func newRunFlags(name, args string, stderr io.Writer) *runFlags {
 	f := &runFlags{fs: flag.NewFlagSet("tally "+name, flag.ContinueOnError)}
 	f.fs.SetOutput(stderr)
-	f.fs.IntVar(&f.workers, "workers", 0, "parallel workers (0: all cores)")
+	f.fs.IntVar(&f.workers, "workers", 0, "parallel workers, 1 to 4 per core (0: all cores)")
 	f.fs.Uint64Var(&f.seed, "seed", sim.DefaultSeed, "random seed (overrides the script's)")
 	f.fs.BoolVar(&f.quiet, "quiet", false, "no progress output")
-	f.fs.BoolVar(&f.trust, "trust", false, "lift the sandbox: let the script import any standard package (os, net, …)")
-	f.fs.Var(&f.memory, "memory", "memory a run may use, such as 4GiB (default: half the machine's, "+isolate.Size(isolate.DefaultMemory())+" here)")
+	f.fs.BoolVar(&f.trust, "trust", false, "lift the sandbox: let the script import any standard package (os, net, …); under watch, only the files there at the start")
+	f.fs.Var(&f.memory, "memory", "the `size` of memory a run may use, such as 4GiB or 512MiB (default: half the machine's, "+isolate.Size(isolate.DefaultMemory())+" here); a run over it ends with an error")
 	f.longFlags = longrun.Flags(f.fs)
 	f.fs.Usage = func() {
 		fmt.Fprintf(stderr, "usage: tally %s [flags] %s\n\nflags:\n", name, args)
