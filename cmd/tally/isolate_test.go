@@ -414,3 +414,19 @@ func TestHugeFrameRefused(t *testing.T) {
 		t.Errorf("exit %d, %q; want 1 and the refusal at the script's line", code, stderr)
 	}
 }
+
+// The child's stack cap leaves room for deep recursion a script may mean: 20 000 levels of an
+// interpreted function (the figure the README gives) run, and the experiment after them too.
+func TestDeepRecursionFits(t *testing.T) {
+	if testing.Short() {
+		t.Skip("starts processes")
+	}
+	dir := t.TempDir()
+	src := strings.Replace(crashScript("deep", "func depth(n int) int {\n\tif n == 0 {\n\t\treturn 0\n\t}\n\treturn depth(n-1) + 1\n}", ""),
+		"x := sim.New(", "if depth(20000) != 20000 {\n\t\tpanic(\"wrong depth\")\n\t}\n\tx := sim.New(", 1)
+	src = strings.Replace(src, "stop.Bits(1e6)", "stop.Bits(1e4)", 1)
+	code, _, stderr := run("run", "-quiet", writeScript(t, dir, "deep", src))
+	if code != 0 {
+		t.Errorf("20 000 levels of recursion: exit %d, %q", code, stderr)
+	}
+}
