@@ -46,6 +46,10 @@ func Serve() int {
 		fmt.Fprintln(os.Stderr, "tally: child started without its pipes")
 		return 2
 	}
+	// Processes a trusted script starts must not hold the pipes open after the child ends.
+	for fd := 3; fd <= 5; fd++ {
+		closeOnExec(fd)
+	}
 	c := &child{enc: gob.NewEncoder(out), answers: make(chan reply)}
 	dec := gob.NewDecoder(ctl)
 	var j job

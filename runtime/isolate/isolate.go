@@ -186,6 +186,8 @@ func (p *parent) run(ctx context.Context, exe string) error {
 	cmd.Stderr = crash
 	cmd.ExtraFiles = []*os.File{reportsW, ctlR, logW}
 	cmd.SysProcAttr = childAttr()
+	// A process a trusted script started may hold the child's stdout: stop waiting for it.
+	cmd.WaitDelay = time.Second
 	err = cmd.Start()
 	reportsW.Close()
 	ctlR.Close()

@@ -32,3 +32,5 @@ func lockFile(path string) (*os.File, error) {
 	}
 	return nil, errHeld
 }
+
+func closeOnExec(fd int) { syscall.CloseOnExec(fd) }
