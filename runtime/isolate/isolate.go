@@ -315,11 +315,13 @@ loop:
 			return p.doneErr
 		}
 		if p.writeErr != nil && end.Err == p.writeErr.Error() {
+			p.resumable = true // a full disk, say: the frames are worth keeping
 			return p.writeErr
 		}
 		if end.Script {
 			return &host.ScriptError{Pos: end.Pos, Msg: end.Err}
 		}
+		p.resumable = true
 		return errors.New(end.Err)
 	case werr != nil && !killed:
 		// The script ended well but the process did not: a goroutine the script started
