@@ -8,6 +8,11 @@
 // line is watched for new experiment files (*.go with //go:build ignore); deleted ones are
 // forgotten. After each successful run the watcher prints, per point, how the BER moved and
 // whether the move is more than chance (see Changes).
+//
+// Host.Trust applies only to the files there when the watch starts; a file that appears later
+// runs sandboxed. A watched folder that is removed or moved away and made again is noticed
+// (folderPoll) and watched again. Config.Run makes each run: tally watch gives isolate.Run, so
+// each run has its own process, which a newer save ends.
 package watch
 
 import (
