@@ -9,6 +9,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 
 	"tally/blocks/channel"
+	"tally/blocks/internal/limit"
 	"tally/blocks/link"
 	"tally/blocks/rng"
 )
@@ -70,6 +71,8 @@ func newLinear(h []complex128, length int, mmse bool, name string) *Linear {
 		e.err = fmt.Errorf("%s: channel taps %v have no energy", name, h)
 	case length < 1:
 		e.err = fmt.Errorf("%s: length %d must be ≥ 1", name, length)
+	case length > limit.Taps:
+		e.err = limit.Length(name, length)
 	case !mmse:
 		e.design(0) // zero forcing needs no noise level: design now, report trouble early
 	}

@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/cmplx"
 
+	"tally/blocks/internal/limit"
 	"tally/blocks/link"
 	"tally/blocks/rng"
 )
@@ -51,6 +52,8 @@ func LMS(length int, mu float64) *Adaptive {
 	switch {
 	case length < 1:
 		e.err = fmt.Errorf("%s: length %d must be ≥ 1", e.Block, length)
+	case length > limit.Taps:
+		e.err = limit.Length(e.Block, length)
 	case !(mu > 0 && mu < 2):
 		e.err = fmt.Errorf("%s: step μ = %v must lie in (0, 2)", e.Block, mu)
 	}

@@ -3,6 +3,7 @@ package fec
 import (
 	"fmt"
 
+	"tally/blocks/internal/limit"
 	"tally/blocks/link"
 	"tally/blocks/rng"
 )
@@ -42,8 +43,11 @@ type Interleaver struct {
 // BlockInterleaver is the rows × cols block interleaver.
 func BlockInterleaver(rows, cols int) *Interleaver {
 	il := &Interleaver{Rows: rows, Cols: cols, Unit: 1, name: fmt.Sprintf("fec.BlockInterleaver(%d, %d)", rows, cols)}
-	if rows < 1 || cols < 1 {
+	switch {
+	case rows < 1 || cols < 1:
 		il.err = fmt.Errorf("%s: rows = %d and cols = %d must be at least 1", il.name, rows, cols)
+	case rows > limit.FrameBits || cols > limit.FrameBits || rows*cols > limit.FrameBits:
+		il.err = fmt.Errorf("%s: rows × cols = %d × %d bits is above the frame limit of %d (2^22)", il.name, rows, cols, limit.FrameBits)
 	}
 	return il
 }

@@ -3,6 +3,7 @@ package source
 import (
 	"fmt"
 
+	"tally/blocks/internal/limit"
 	"tally/blocks/link"
 	"tally/blocks/rng"
 )
@@ -27,6 +28,9 @@ func (s *Repeat) Name() string { return "source.Pattern" }
 func (s *Repeat) Err() error {
 	if s.N < 1 {
 		return fmt.Errorf("source.Pattern: n = %d bits per frame must be at least 1", s.N)
+	}
+	if err := limit.Frame("source.Pattern", "n", s.N); err != nil {
+		return err
 	}
 	if len(s.Bits) == 0 {
 		return fmt.Errorf("source.Pattern: the pattern is empty")

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math/bits"
 
+	"tally/blocks/internal/limit"
 	"tally/blocks/link"
 	"tally/blocks/rng"
 )
@@ -61,7 +62,7 @@ func (s *PRBSSequence) Err() error {
 	if s.N < 1 {
 		return fmt.Errorf("source.PRBS: n = %d bits per frame must be at least 1", s.N)
 	}
-	return nil
+	return limit.Frame("source.PRBS", "n", s.N)
 }
 
 // Period is the length of the sequence, 2^Order − 1.

@@ -3,6 +3,7 @@ package source
 import (
 	"fmt"
 
+	"tally/blocks/internal/limit"
 	"tally/blocks/link"
 	"tally/blocks/rng"
 )
@@ -19,12 +20,12 @@ func Random(n int) *RandomBits { return &RandomBits{N: n} }
 // Name is "source.Random".
 func (s *RandomBits) Name() string { return "source.Random" }
 
-// Err reports a frame length below one bit.
+// Err reports a frame length below one bit or above limit.FrameBits.
 func (s *RandomBits) Err() error {
 	if s.N < 1 {
 		return fmt.Errorf("source.Random: n = %d bits per frame must be at least 1", s.N)
 	}
-	return nil
+	return limit.Frame("source.Random", "n", s.N)
 }
 
 // Process fills the frame with fresh bits.

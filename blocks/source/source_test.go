@@ -74,11 +74,16 @@ func TestPRBS7KnownBytes(t *testing.T) {
 func TestPRBSPeriodAndBalance(t *testing.T) {
 	// A maximal-length sequence of an n-stage register has period 2^n − 1 and 2^(n−1) ones
 	// per period (Golomb, Shift Register Sequences, 1967, the balance property). Walk the full
-	// period for orders up to 23 (the 8 M steps of order 23 take some milliseconds).
+	// period for orders up to 23 (the 8 M steps of order 23 take some milliseconds), in frames
+	// of at most 2^20 bits (a frame may not exceed 2^22), which the sequence runs on across.
 	for _, n := range []int{7, 9, 11, 15, 20, 23} {
 		P := 1<<n - 1
-		s := source.PRBS(n, P+n).Invert(false)
-		a := frame(t, s, 0)
+		N := min(P+n, 1<<20)
+		s := source.PRBS(n, N).Invert(false)
+		var a []byte
+		for f := 0; len(a) < P+n; f++ {
+			a = append(a, frame(t, s, f)...)
+		}
 		for i := range n { // the register returns to its start after P steps, not before
 			if a[P+i] != a[i] {
 				t.Fatalf("order %d: bit %d of the second period differs", n, i)

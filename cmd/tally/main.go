@@ -13,6 +13,8 @@ import (
 	"fmt"
 	"io"
 	"os"
+
+	"tally/runtime/isolate"
 )
 
 type command struct {
@@ -33,7 +35,13 @@ func usage(w io.Writer) {
 	}
 }
 
-func main() { os.Exit(dispatch(os.Args[1:], os.Stdout, os.Stderr)) }
+func main() {
+	if isolate.Child() {
+		// A run's own process, started by tally run or tally watch (see runtime/isolate).
+		os.Exit(isolate.Serve())
+	}
+	os.Exit(dispatch(os.Args[1:], os.Stdout, os.Stderr))
+}
 
 // dispatch runs a subcommand: 0 success, 1 a failed run or script, 2 a usage error.
 func dispatch(args []string, stdout, stderr io.Writer) int {

@@ -10,6 +10,7 @@ import (
 	"os/signal"
 
 	"tally/runtime/host"
+	"tally/runtime/isolate"
 	"tally/runtime/longrun"
 	"tally/runtime/output"
 )
@@ -59,6 +60,12 @@ func mergeCmd(args []string, stdout, stderr io.Writer) int {
 	}
 	set := &longrun.Settings{Replay: m}
 	cfg := host.Config{Workers: 1, Seed: m.Seed, SeedSet: true, Quiet: *quiet, Trust: *trust, Log: stderr, Long: set}
+	release, err := isolate.Lock(output.Dir(path), ".lock")
+	if err != nil {
+		fmt.Fprintln(stderr, "tally merge:", err)
+		return 1
+	}
+	defer release()
 	ctx, stopSignals := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stopSignals()
 	err = host.Run(ctx, path, cfg)

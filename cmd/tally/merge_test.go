@@ -8,10 +8,12 @@ import (
 	"os/exec"
 	"path/filepath"
 	"strings"
+	"sync"
 	"syscall"
 	"testing"
 	"time"
 
+	"tally/runtime/isolate"
 	"tally/runtime/longrun"
 )
 
@@ -61,15 +63,44 @@ func main() {
 }
 `
 
-// tallyBinary builds the command once into a temporary folder.
+// tallyBinary is the command built once (by TestMain's first caller) into a temporary folder.
 func tallyBinary(t *testing.T) string {
 	t.Helper()
-	bin := filepath.Join(t.TempDir(), "tally")
-	out, err := exec.Command("go", "build", "-o", bin, ".").CombinedOutput()
-	if err != nil {
-		t.Fatalf("go build: %v\n%s", err, out)
+	binOnce.Do(func() {
+		dir, err := os.MkdirTemp("", "tally-test-bin-")
+		if err != nil {
+			binErr = err
+			return
+		}
+		binDir = dir
+		binPath = filepath.Join(dir, "tally")
+		out, err := exec.Command("go", "build", "-o", binPath, ".").CombinedOutput()
+		if err != nil {
+			binErr = fmt.Errorf("go build: %v\n%s", err, out)
+		}
+	})
+	if binErr != nil {
+		t.Fatal(binErr)
 	}
-	return bin
+	return binPath
+}
+
+var (
+	binOnce         sync.Once
+	binDir, binPath string
+	binErr          error
+)
+
+func TestMain(m *testing.M) {
+	if isolate.Child() {
+		// Runs started by tests that call dispatch in this process run in this binary.
+		os.Exit(isolate.Serve())
+	}
+	code := m.Run()
+	if binDir != "" {
+		os.RemoveAll(binDir)
+	}
+	os.Exit(code)
 }
 
 // script writes the slow script (plus extra text) as dir/<name>.go.

@@ -8,8 +8,10 @@ import (
 	"io"
 	"os"
 	"os/signal"
+	"runtime"
 
 	"tally/runtime/host"
+	"tally/runtime/isolate"
 	"tally/runtime/longrun"
 	"tally/runtime/sim"
 )
@@ -25,6 +27,7 @@ type runFlags struct {
 	seed    uint64
 	quiet   bool
 	trust   bool
+	memory  isolate.SizeFlag
 	// long-run flags (-resume, -restart, -checkpoint, -shard, -extend): see longrun.Flags.
 	longFlags func() (*longrun.Settings, error)
 	long      *longrun.Settings
@@ -33,10 +36,11 @@ type runFlags struct {
 func newRunFlags(name, args string, stderr io.Writer) *runFlags {
 	f := &runFlags{fs: flag.NewFlagSet("tally "+name, flag.ContinueOnError)}
 	f.fs.SetOutput(stderr)
-	f.fs.IntVar(&f.workers, "workers", 0, "parallel workers (0: all cores)")
+	f.fs.IntVar(&f.workers, "workers", 0, "parallel workers, 1 to 4 per core (0: all cores)")
 	f.fs.Uint64Var(&f.seed, "seed", sim.DefaultSeed, "random seed (overrides the script's)")
 	f.fs.BoolVar(&f.quiet, "quiet", false, "no progress output")
-	f.fs.BoolVar(&f.trust, "trust", false, "lift the sandbox: let the script import any standard package (os, net, …)")
+	f.fs.BoolVar(&f.trust, "trust", false, "lift the sandbox: let the script import any standard package (os, net, …); under watch, only the files there at the start")
+	f.fs.Var(&f.memory, "memory", "the `size` of memory a run may use, such as 4GiB or 512MiB (default: half the machine's, "+isolate.Size(isolate.DefaultMemory())+" here); a run over it ends with an error")
 	f.longFlags = longrun.Flags(f.fs)
 	f.fs.Usage = func() {
 		fmt.Fprintf(stderr, "usage: tally %s [flags] %s\n\nflags:\n", name, args)
@@ -63,6 +67,10 @@ func (f *runFlags) parse(args []string) int {
 		}
 		return 2
 	}
+	if max := 4 * runtime.NumCPU(); f.workers < 0 || f.workers > max {
+		fmt.Fprintf(f.fs.Output(), "tally: -workers %d: give 1 to %d (4 per core), or 0 for all %d cores\n", f.workers, max, runtime.NumCPU())
+		return 2
+	}
 	var err error
 	if f.long, err = f.longFlags(); err != nil {
 		fmt.Fprintf(f.fs.Output(), "tally: %v\n", err)
@@ -82,7 +90,12 @@ func runCmd(args []string, stdout, stderr io.Writer) int {
 	}
 	ctx, stopSignals := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stopSignals()
-	return exitCode(host.Run(ctx, f.fs.Arg(0), f.config(stderr)), stderr)
+	return exitCode(isolate.Run(ctx, f.fs.Arg(0), f.isolated(stderr)), stderr)
+}
+
+// isolated is how a run's child process is made.
+func (f *runFlags) isolated(stderr io.Writer) isolate.Config {
+	return isolate.Config{Host: f.config(stderr), Memory: f.memory.Bytes}
 }
 
 // exitCode reports a run's error and gives the exit code: 1 for a script or run error, 130 for
@@ -92,7 +105,12 @@ func exitCode(err error, stderr io.Writer) int {
 	case err == nil:
 		return 0
 	case errors.Is(err, host.ErrInterrupted):
-		fmt.Fprintln(stderr, "interrupted: finished points written")
+		var ie *isolate.Interrupted
+		if errors.As(err, &ie) {
+			fmt.Fprintln(stderr, ie)
+		} else {
+			fmt.Fprintln(stderr, "interrupted: finished points written")
+		}
 		return 130
 	default:
 		fmt.Fprintln(stderr, err)

@@ -53,6 +53,13 @@ type Config struct {
 	Done func(r *result.Run) error
 	// Long are the checkpoint, resume, shard and merge settings (nil: no checkpoint).
 	Long *longrun.Settings
+	// Point, if set, is given the run so far after each point ends (see sim.Options.Point).
+	Point func(r *result.Run)
+	// Output, if set, writes a finished run's files instead of output.Write.
+	Output func(dir string, r *result.Run) error
+	// Position, if set, is given before the script starts a function naming the statement the
+	// script last reached ("file:line:col", "" before any), safe to call from any goroutine.
+	Position func(where func() string)
 }
 
 // ScriptError is a mistake in a script, at a position in it.
@@ -90,7 +97,8 @@ func Run(ctx context.Context, path string, cfg Config) error {
 	marked, mk := instrument(fset, file, src)
 	runner.Hosted()
 	opts := &runner.Options{Context: ctx, Script: path, Source: src, Mode: "interpreted", Workers: cfg.Workers,
-		Seed: cfg.Seed, SeedSet: cfg.SeedSet, Quiet: cfg.Quiet, Log: cfg.Log, Done: cfg.Done, Long: cfg.Long}
+		Seed: cfg.Seed, SeedSet: cfg.SeedSet, Quiet: cfg.Quiet, Log: cfg.Log, Done: cfg.Done, Long: cfg.Long,
+		Point: cfg.Point, Output: cfg.Output}
 	var stderr bytes.Buffer
 	stdout := cfg.Stdout
 	if stdout == nil {
@@ -108,6 +116,9 @@ func Run(ctx context.Context, path string, cfg Config) error {
 		err = errors.Join(i.Use(bound(opts)), i.Use(mk.exports()))
 	}
 	opts.Where = mk.where
+	if cfg.Position != nil {
+		cfg.Position(mk.where)
+	}
 	if err != nil {
 		return fmt.Errorf("host: %w", err)
 	}

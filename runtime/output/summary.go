@@ -12,7 +12,7 @@ import (
 // render when someone opens the folder.
 func Summary(r *result.Run, files []string) []byte {
 	var b bytes.Buffer
-	fmt.Fprintf(&b, "# %s\n\n", r.Name)
+	fmt.Fprintf(&b, "# %s\n\n", md(r.Name))
 	fmt.Fprintf(&b, "Results of `%s` (script SHA-256 `%.12s…`), seed %d, %s intervals at %g %% confidence.",
 		r.Script, r.ScriptSHA256, r.Seed, r.Method, 100*r.Confidence)
 	if Weighted(r) {
@@ -24,24 +24,24 @@ func Summary(r *result.Run, files []string) []byte {
 	b.WriteString("\n\n")
 	for _, f := range files {
 		if strings.HasSuffix(f, ".png") {
-			fmt.Fprintf(&b, "![%s](%s)\n\n", r.Name, f)
+			fmt.Fprintf(&b, "![%s](%s)\n\n", md(r.Name), f)
 		}
 	}
 	if len(r.Targets) > 0 {
 		b.WriteString("## At the target\n\n")
 		for _, t := range r.Targets {
-			fmt.Fprintf(&b, "- %s", targetLine(r, t))
+			fmt.Fprintf(&b, "- %s", md(targetLine(r, t)))
 			b.WriteString("\n")
 		}
 		b.WriteString("\n")
 	}
 	b.WriteString("## Points\n\n|")
 	for _, p := range r.Params {
-		fmt.Fprintf(&b, " %s |", p)
+		fmt.Fprintf(&b, " %s |", md(p))
 	}
 	b.WriteString(" bits | errors | BER | interval | stop |")
 	for _, c := range r.Theory {
-		fmt.Fprintf(&b, " %s |", c)
+		fmt.Fprintf(&b, " %s |", md(c))
 	}
 	b.WriteString("\n|")
 	for range len(r.Params) + 5 + len(r.Theory) {
@@ -51,7 +51,7 @@ func Summary(r *result.Run, files []string) []byte {
 	for _, p := range r.Points {
 		b.WriteString("|")
 		for i := range r.Params {
-			fmt.Fprintf(&b, " %s |", r.Value(p, i))
+			fmt.Fprintf(&b, " %s |", md(r.Value(p, i)))
 		}
 		t := p.Taps[0]
 		fmt.Fprintf(&b, " %d | %d | %s | [%s, %s] | %s |", t.Trials, t.Errors, Num(t.Rate), Num(t.Low), Num(t.High), p.Stop)
@@ -65,7 +65,7 @@ func Summary(r *result.Run, files []string) []byte {
 		if t := p.Taps[0]; strings.HasSuffix(t.Method, "+clustered") {
 			var at []string
 			for i, n := range r.Params {
-				at = append(at, n+" "+r.Value(p, i))
+				at = append(at, md(n+" "+r.Value(p, i)))
 			}
 			bursty = append(bursty, fmt.Sprintf("%s (dispersion %.1f)", strings.Join(at, ", "), t.Dispersion))
 		}

@@ -43,15 +43,20 @@ func Num(v float64) string {
 func Table(r *result.Run) []byte {
 	var b bytes.Buffer
 	w := csv.NewWriter(&b)
-	head := append([]string(nil), r.Params...)
+	var head []string
+	for _, p := range r.Params {
+		head = append(head, csvCell(p))
+	}
 	for i, t := range r.Taps {
-		head = append(head, tapColumns(t)...)
+		for _, c := range tapColumns(t) {
+			head = append(head, csvCell(c))
+		}
 		if i == 0 {
 			head = append(head, "stop")
 		}
 	}
 	for _, c := range r.Theory {
-		head = append(head, "theory_"+c)
+		head = append(head, csvCell("theory_"+c))
 	}
 	weighted := Weighted(r)
 	if weighted {
@@ -61,7 +66,7 @@ func Table(r *result.Run) []byte {
 	for _, p := range r.Points {
 		row := make([]string, 0, len(head))
 		for i := range r.Params {
-			row = append(row, r.Value(p, i))
+			row = append(row, csvCell(r.Value(p, i)))
 		}
 		for i, t := range p.Taps {
 			if t.Absent {

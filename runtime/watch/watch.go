@@ -8,6 +8,11 @@
 // line is watched for new experiment files (*.go with //go:build ignore); deleted ones are
 // forgotten. After each successful run the watcher prints, per point, how the BER moved and
 // whether the move is more than chance (see Changes).
+//
+// Host.Trust applies only to the files there when the watch starts; a file that appears later
+// runs sandboxed. A watched folder that is removed or moved away and made again is noticed
+// (folderPoll) and watched again. Config.Run makes each run: tally watch gives isolate.Run, so
+// each run has its own process, which a newer save ends.
 package watch
 
 import (
@@ -38,6 +43,9 @@ type Config struct {
 	Debounce time.Duration
 	// OnEvent, if set, is told of every step, on the watcher's goroutine.
 	OnEvent func(Event)
+	// Run makes one run (default host.Run, in this process; tally watch gives isolate.Run, a
+	// child process per run). It must end soon after ctx ends.
+	Run func(ctx context.Context, path string, cfg host.Config) error
 }
 
 // Kind is what happened to a watched file.
@@ -69,6 +77,7 @@ const missingGrace = 300 * time.Millisecond
 
 type file struct {
 	explicit bool        // named on the command line: kept even while it is missing
+	trusted  bool        // there at the start: Host.Trust applies (later files run sandboxed)
 	prev     *result.Run // the last good run, to compare the next one with
 	hash     [32]byte    // content of the last run that completed (well or not)
 	ran      bool
@@ -94,6 +103,7 @@ type watcher struct {
 	out     io.Writer
 	fs      *fsnotify.Watcher
 	dirs    map[string]bool
+	watched map[string]os.FileInfo // the folders watched, as they were when watching began
 	files   map[string]*file
 	pending map[string]time.Time
 	empty   map[string]bool // seen empty once (an editor between truncating and writing)
@@ -110,7 +120,7 @@ func Run(ctx context.Context, paths []string, cfg Config) error {
 	if cfg.Debounce <= 0 {
 		cfg.Debounce = 30 * time.Millisecond
 	}
-	w := &watcher{cfg: cfg, out: cfg.Out, dirs: map[string]bool{}, files: map[string]*file{},
+	w := &watcher{cfg: cfg, out: cfg.Out, dirs: map[string]bool{}, watched: map[string]os.FileInfo{}, files: map[string]*file{},
 		pending: map[string]time.Time{}, empty: map[string]bool{}, done: make(chan outcome, 1)}
 	if w.out == nil {
 		w.out = os.Stdout
@@ -159,14 +169,14 @@ func (w *watcher) add(paths []string) error {
 			}
 			for _, f := range found {
 				if w.files[f] == nil {
-					w.files[f] = &file{prev: lastRun(f)}
+					w.files[f] = &file{prev: lastRun(f), trusted: true}
 				}
 			}
 		} else {
 			if f := w.files[p]; f != nil {
 				f.explicit = true
 			} else {
-				w.files[p] = &file{explicit: true, prev: lastRun(p)}
+				w.files[p] = &file{explicit: true, prev: lastRun(p), trusted: true}
 			}
 		}
 		if !watched[dir] {
@@ -174,14 +184,21 @@ func (w *watcher) add(paths []string) error {
 				return fmt.Errorf("watch: %s: %w", dir, err)
 			}
 			watched[dir] = true
+			w.watched[dir], _ = os.Stat(dir)
 		}
 	}
 	return nil
 }
 
 func (w *watcher) loop(ctx context.Context) error {
+	// A watch follows a folder's inode: a folder moved away and made again (a checkout, a
+	// sync tool) sends no event, so the folders are looked at now and then.
+	poll := time.NewTicker(folderPoll)
+	defer poll.Stop()
 	for {
 		select {
+		case <-poll.C:
+			w.checkFolders()
 		case <-ctx.Done():
 			w.stop()
 			return nil
@@ -198,6 +215,43 @@ func (w *watcher) loop(ctx context.Context) error {
 			w.flush()
 		case o := <-w.done:
 			w.finish(o)
+		}
+	}
+}
+
+// folderPoll is how often the watched folders are checked for being replaced.
+var folderPoll = 500 * time.Millisecond
+
+// checkFolders notices a watched folder that was removed or moved away, and watches it again
+// once a folder of that name is back, looking at every experiment in it.
+func (w *watcher) checkFolders() {
+	for dir, was := range w.watched {
+		st, err := os.Stat(dir)
+		switch {
+		case err != nil || !st.IsDir():
+			if was != nil {
+				w.printf("%s: the folder is gone; waiting for it to come back\n", dir)
+				w.watched[dir] = nil
+			}
+		case was == nil || !os.SameFile(was, st):
+			w.fs.Remove(dir) // the old folder's watch, if it still exists elsewhere
+			if err := w.fs.Add(dir); err != nil {
+				w.printf("watch: %s: %v\n", dir, err)
+				continue
+			}
+			w.watched[dir] = st
+			w.printf("%s: the folder was replaced; watching the new one\n", dir)
+			for p := range w.files {
+				if filepath.Dir(p) == dir {
+					w.later(p, w.cfg.Debounce)
+				}
+			}
+			if w.dirs[dir] {
+				found, _ := experiments(dir)
+				for _, p := range found {
+					w.later(p, w.cfg.Debounce)
+				}
+			}
 		}
 	}
 }
@@ -305,7 +359,11 @@ func (w *watcher) settle(p string) {
 		}
 		f = &file{prev: lastRun(p)}
 		w.files[p] = f
-		w.printf("%s: new experiment\n", p)
+		if w.cfg.Host.Trust {
+			w.printf("%s: new experiment, run sandboxed (-trust covers only the files there at the start)\n", p)
+		} else {
+			w.printf("%s: new experiment\n", p)
+		}
 		w.emit(Event{Kind: Added, File: p})
 	} else if !f.explicit && !isExperiment(src) {
 		w.drop(p)
@@ -365,6 +423,7 @@ func (w *watcher) next() {
 	j := &job{path: p, hash: sha256.Sum256(src), cancel: cancel, start: time.Now()}
 	w.cur = j
 	cfg := w.cfg.Host
+	cfg.Trust = cfg.Trust && w.files[p] != nil && w.files[p].trusted
 	var got *result.Run
 	user := cfg.Done
 	cfg.Done = func(r *result.Run) error {
@@ -382,7 +441,11 @@ func (w *watcher) next() {
 	w.printf("%s: running\n", p)
 	w.emit(Event{Kind: Started, File: p})
 	go func() {
-		err := host.Run(ctx, p, cfg)
+		run := w.cfg.Run
+		if run == nil {
+			run = host.Run
+		}
+		err := run(ctx, p, cfg)
 		cancel()
 		w.done <- outcome{job: j, run: got, err: err}
 	}()

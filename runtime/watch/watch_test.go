@@ -105,7 +105,10 @@ type harness struct {
 }
 
 // start watches paths in the background; the watch ends with the test.
-func start(t *testing.T, paths ...string) *harness {
+func start(t *testing.T, paths ...string) *harness { return startWith(t, nil, paths...) }
+
+// startWith is start with the configuration changed by mod.
+func startWith(t *testing.T, mod func(*Config), paths ...string) *harness {
 	h := &harness{t: t, events: make(chan seen, 1000), out: &lockedBuffer{}, ended: make(chan error, 1)}
 	ctx, cancel := context.WithCancel(context.Background())
 	h.cancel = cancel
@@ -113,6 +116,9 @@ func start(t *testing.T, paths ...string) *harness {
 		_, err := os.Stat(filepath.Join(strings.TrimSuffix(e.File, ".go"), "table.csv"))
 		h.events <- seen{Event: e, tableThere: err == nil}
 	}}
+	if mod != nil {
+		mod(&cfg)
+	}
 	go func() { h.ended <- Run(ctx, paths, cfg) }()
 	t.Cleanup(func() { h.stop() })
 	return h
@@ -271,6 +277,63 @@ func TestWatchCancelsRunInFlight(t *testing.T) {
 	}
 	if !e.tableThere {
 		t.Error("the new run wrote no table")
+	}
+}
+
+// trustingScript needs the sandbox lifted: it imports os.
+func trustingScript() string {
+	return strings.Replace(strings.Replace(script(1, "1024"), "import (", "import (\n\t\"os\"", 1),
+		"x.Run()", "x.Run()\n\t_ = os.Getpid", 1)
+}
+
+// watch -trust trusts the files there at the start only: a file dropped into the watched
+// folder later runs sandboxed, so its import of os is refused. Before, it ran trusted.
+func TestWatchTrustsOnlyFilesAtStart(t *testing.T) {
+	dir := t.TempDir()
+	named := filepath.Join(dir, "named.go")
+	write(t, named, trustingScript())
+	h := startWith(t, func(c *Config) { c.Host.Trust = true }, dir)
+	h.wait(Finished, named)
+	dropped := filepath.Join(dir, "dropped.go")
+	write(t, dropped, trustingScript())
+	e := h.wait(Failed, dropped)
+	if e.Err == nil || !strings.Contains(e.Err.Error(), `import "os" is not allowed in a sandboxed script`) {
+		t.Errorf("a file dropped in later: %v, want the sandbox to refuse its import of os", e.Err)
+	}
+	if !strings.Contains(h.out.String(), "run sandboxed") {
+		t.Errorf("the watcher did not say the new file runs sandboxed:\n%s", h.out.String())
+	}
+}
+
+// A watched folder moved away and made again is watched again: a save in the new folder runs.
+// Before, the watch stayed on the moved folder and the new one was never seen.
+func TestWatchFolderReplaced(t *testing.T) {
+	old := folderPoll
+	folderPoll = 20 * time.Millisecond
+	t.Cleanup(func() { folderPoll = old })
+	root := t.TempDir()
+	dir := filepath.Join(root, "exps")
+	os.Mkdir(dir, 0o755)
+	exp := filepath.Join(dir, "exp.go")
+	write(t, exp, script(1, "1024"))
+	h := start(t, dir)
+	h.wait(Finished, exp)
+	if err := os.Rename(dir, filepath.Join(root, "moved")); err != nil {
+		t.Fatal(err)
+	}
+	for deadline := time.Now().Add(30 * time.Second); !strings.Contains(h.out.String(), "the folder is gone"); time.Sleep(10 * time.Millisecond) {
+		if time.Now().After(deadline) {
+			t.Fatalf("the watcher did not notice its folder moved away:\n%s", h.out.String())
+		}
+	}
+	os.Mkdir(dir, 0o755)
+	write(t, exp, script(2, "1024"))
+	if e := h.wait(Finished, exp); e.Run.Seed != 2 {
+		t.Errorf("the run in the new folder has seed %d, want 2", e.Run.Seed)
+	}
+	write(t, exp, script(3, "1024"))
+	if e := h.wait(Finished, exp); e.Run.Seed != 3 {
+		t.Errorf("a save in the new folder ran seed %d, want 3", e.Run.Seed)
 	}
 }
 

@@ -35,6 +35,11 @@ type Options struct {
 	Where func() string
 	// Long are the checkpoint, resume, shard and merge settings; nil keeps no checkpoint.
 	Long *longrun.Settings
+	// Point, if set, is given the run so far after each point ends (finished points only).
+	Point func(r *result.Run)
+	// Output, if set, writes a finished run's files into dir instead of output.Write (the
+	// isolated child hands them to its parent).
+	Output func(dir string, r *result.Run) error
 
 	ran string // the name of the experiment this script has run; a script runs one
 }

@@ -147,6 +147,9 @@ func (x *experiment) execute() (*result.Run, error) {
 		run.Taps = unionTaps(run.Taps, rp.Taps)
 		run.Points = append(run.Points, rp)
 		x.report(pt, rp)
+		if o.Point != nil && rp.Stop != engine.Interrupted {
+			o.Point(run)
+		}
 		if rp.Stop == engine.Interrupted {
 			run.Interrupted = true
 			break
@@ -336,7 +339,12 @@ func (x *experiment) write(r *result.Run) error {
 	if skip {
 		return nil
 	}
-	if err := output.Write(output.Dir(x.opts.Script), r); err != nil {
+	dir := output.Dir(x.opts.Script)
+	write := output.Write
+	if x.opts.Output != nil {
+		write = x.opts.Output
+	}
+	if err := write(dir, r); err != nil {
 		return err
 	}
 	return x.long.Written(r.Interrupted)

@@ -1,0 +1,169 @@
+package isolate
+
+import (
+	"context"
+	"encoding/gob"
+	"errors"
+	"fmt"
+	"os"
+	"os/signal"
+	"runtime/debug"
+	"runtime/metrics"
+	"sync"
+	"time"
+
+	"tally/runtime/host"
+	"tally/runtime/result"
+)
+
+// envChild marks a process started as a child: its value is the protocol version.
+const envChild = "TALLY_ISOLATED_CHILD"
+
+const protocol = "1"
+
+// MaxStack is the child's stack limit: endless recursion in a script fails in about a second
+// instead of after a gigabyte (the Go default). Interpreted calls are deep, but 64 MiB is still
+// tens of thousands of levels of a script's own recursion.
+const MaxStack = 32 << 20
+
+// Child reports whether this process was started by Run as a child. Call it first thing in
+// main (and in TestMain of a test that starts children from its own binary), then Serve.
+func Child() bool { return os.Getenv(envChild) != "" }
+
+// Serve is the child's side: it runs the job its parent sends and reports back. It returns the
+// process's exit code.
+func Serve() int {
+	if os.Getenv(envChild) != protocol {
+		fmt.Fprintf(os.Stderr, "tally: child of another version (protocol %q, this binary %q)\n", os.Getenv(envChild), protocol)
+		return 2
+	}
+	os.Unsetenv(envChild) // a trusted script that starts tally starts a parent, not a child
+	out := os.NewFile(3, "reports")
+	ctl := os.NewFile(4, "control")
+	logf := os.NewFile(5, "log")
+	if out == nil || ctl == nil || logf == nil {
+		fmt.Fprintln(os.Stderr, "tally: child started without its pipes")
+		return 2
+	}
+	// Processes a trusted script starts must not hold the pipes open after the child ends.
+	for fd := 3; fd <= 5; fd++ {
+		closeOnExec(fd)
+	}
+	c := &child{enc: gob.NewEncoder(out), answers: make(chan reply)}
+	dec := gob.NewDecoder(ctl)
+	var j job
+	if err := dec.Decode(&j); err != nil {
+		fmt.Fprintln(os.Stderr, "tally: child: no job:", err)
+		return 2
+	}
+	// Ctrl-C reaches the parent, which stops the child by its control pipe; a terminal's
+	// signal to the whole group must not end the child before the parent decides.
+	signal.Ignore(os.Interrupt)
+	debug.SetMaxStack(MaxStack)
+	if j.Memory > 0 {
+		// The runtime collects harder as the heap nears the limit; watchMemory ends the run
+		// when collecting no longer keeps it below.
+		debug.SetMemoryLimit(j.Memory)
+		go c.watchMemory(j.Memory)
+	}
+	ctx, stop := context.WithCancel(context.Background())
+	defer stop()
+	go func() {
+		for {
+			var r reply
+			if err := dec.Decode(&r); err != nil {
+				os.Exit(3) // the parent is gone: nothing may outlive it
+			}
+			if r.Stop {
+				stop()
+				continue
+			}
+			c.answers <- r
+		}
+	}()
+
+	cfg := j.config()
+	cfg.Log = logf
+	cfg.Stdout = os.Stdout
+	cfg.Point = func(r *result.Run) { c.send(report{Kind: kindPoint, Run: r}) }
+	cfg.Done = func(r *result.Run) error {
+		c.send(report{Kind: kindDone, Run: r})
+		return c.answer()
+	}
+	cfg.Output = func(dir string, _ *result.Run) error {
+		c.send(report{Kind: kindWrite, Dir: dir})
+		return c.answer()
+	}
+	cfg.Position = func(where func() string) { go c.samplePos(ctx, where) }
+	err := host.Run(ctx, j.Path, cfg)
+	end := report{Kind: kindEnd}
+	var se *host.ScriptError
+	switch {
+	case err == nil:
+	case errors.Is(err, host.ErrInterrupted):
+		end.Interrupted = true
+	case errors.As(err, &se):
+		end.Script, end.Pos, end.Err = true, se.Pos, se.Msg
+	default:
+		end.Err = err.Error()
+	}
+	c.send(end)
+	out.Close()
+	// Goroutines the script started end with the process.
+	return 0
+}
+
+type child struct {
+	mu      sync.Mutex
+	enc     *gob.Encoder
+	answers chan reply
+}
+
+func (c *child) send(r report) {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if err := c.enc.Encode(r); err != nil {
+		os.Exit(3) // the parent stopped listening
+	}
+}
+
+func (c *child) answer() error {
+	r := <-c.answers
+	if r.Err != "" {
+		return errors.New(r.Err)
+	}
+	return nil
+}
+
+// samplePos tells the parent where the script is, so a crash can be placed at a statement.
+func (c *child) samplePos(ctx context.Context, where func() string) {
+	t := time.NewTicker(10 * time.Millisecond)
+	defer t.Stop()
+	last := ""
+	for {
+		if p := where(); p != last {
+			last = p
+			c.send(report{Kind: kindPos, Pos: p})
+		}
+		select {
+		case <-ctx.Done():
+			return
+		case <-t.C:
+		}
+	}
+}
+
+// watchMemory ends the child when the memory the Go runtime holds from the system stays
+// above the limit.
+func (c *child) watchMemory(limit int64) {
+	s := []metrics.Sample{{Name: "/memory/classes/total:bytes"}, {Name: "/memory/classes/heap/released:bytes"}}
+	for {
+		time.Sleep(25 * time.Millisecond)
+		metrics.Read(s)
+		held := int64(s[0].Value.Uint64() - s[1].Value.Uint64())
+		if held > limit {
+			c.send(report{Kind: kindMemory, Bytes: held})
+			os.Exit(4)
+		}
+	}
+}
