@@ -27,6 +27,7 @@ type marks struct {
 	pos  []token.Position
 	ins  []insertion  // what was inserted, by offset
 	last atomic.Int64 // 1 + index of the last marker reached; 0 before any
+	prep *prepared    // the type-checked script (nil: not checked)
 }
 
 // where is the position of the last marker reached, "" before any.
@@ -43,8 +44,8 @@ func (m *marks) exports() interp.Exports {
 	return interp.Exports{markPkg + "/mark": {"At": reflect.ValueOf(func(i int) { m.last.Store(int64(i)) })}}
 }
 
-// instrument returns src with markers inserted, and the marker table.
-func instrument(fset *token.FileSet, f *ast.File, src []byte) ([]byte, *marks) {
+// instrument returns src with markers and the fixes inserted, and the marker table.
+func instrument(fset *token.FileSet, f *ast.File, src []byte, fixes ...insertion) ([]byte, *marks) {
 	m := &marks{}
 	var offsets []int
 	var list func(stmts []ast.Stmt, inLoop bool)
@@ -99,10 +100,10 @@ func instrument(fset *token.FileSet, f *ast.File, src []byte) ([]byte, *marks) {
 			visit(fd.Body, false)
 		}
 	}
-	if len(offsets) == 0 {
+	if len(offsets) == 0 && len(fixes) == 0 {
 		return src, m
 	}
-	var edits []insertion
+	edits := append([]insertion(nil), fixes...)
 	end := fset.Position(f.Name.End())
 	edits = append(edits, insertion{end.Offset, end.Line, end.Column, "; import __tallymark " + strconv.Quote(markPkg)})
 	for i, off := range offsets {
