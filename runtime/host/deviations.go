@@ -80,14 +80,15 @@ func (p *prepared) unsupported(line, col int) string {
 }
 
 type deviations struct {
-	fset   *token.FileSet
-	info   *types.Info
-	path   string
-	src    []byte
-	copied bool // src is the host's copy
-	ins    []insertion
-	err    *ScriptError
-	errOff int // where err is
+	fset    *token.FileSet
+	info    *types.Info
+	path    string
+	src     []byte
+	copied  bool // src is the host's copy
+	ins     []insertion
+	err     *ScriptError
+	errOff  int // where err is
+	hoisted int // deferred values given names so far
 }
 
 // refuse records the first construct the interpreter cannot run as Go does.
@@ -119,6 +120,10 @@ func (d *deviations) inspect(f *ast.File) {
 			d.selector(n, stack)
 		case *ast.DeclStmt:
 			d.blankVar(n)
+		case *ast.DeferStmt:
+			d.deferStmt(n)
+		case *ast.CallExpr:
+			d.printCall(n)
 		}
 		return true
 	})
@@ -262,7 +267,7 @@ func (d *deviations) copyAtStart(body *ast.BlockStmt, vars []string) {
 	}
 	p := d.fset.Position(body.Lbrace)
 	text := " " + strings.Join(vars, ", ") + " := " + strings.Join(vars, ", ") + ";"
-	d.ins = append(d.ins, insertion{p.Offset + 1, p.Line, p.Column + 1, text})
+	d.ins = append(d.ins, insertion{off: p.Offset + 1, line: p.Line, col: p.Column + 1, text: text})
 }
 
 // captured reports whether v is used in a function literal inside body, or has its address
@@ -366,4 +371,250 @@ func (d *deviations) blankVar(n *ast.DeclStmt) {
 			}
 		}
 	}
+}
+
+// deferStmt makes a deferred call use the function value, receiver and arguments as they are
+// at the defer statement, as Go does. The interpreter reads a variable, a field or an element
+// only when the deferred call runs, and a value it computed at the defer statement from a
+// slot that a loop reuses; a variable declared afresh in a block is the interpreter's own,
+// iteration by iteration. So
+//
+//	defer f(x, t.n)   becomes   { __tally1, __tally2 := x, t.n; defer f(__tally1, __tally2) }
+//
+// on the same line. Constants stay in place; a deferred call over several lines is refused.
+func (d *deviations) deferStmt(n *ast.DeferStmt) {
+	call := n.Call
+	if call.Ellipsis.IsValid() {
+		d.refuse(call.Args[len(call.Args)-1], "the interpreter passes %s as one argument in a deferred call with ...: defer a function literal that makes the call", types.ExprString(call.Args[len(call.Args)-1]))
+		return
+	}
+	if at := d.funcValueCall(call); at != nil {
+		d.refuse(at, "the interpreter hangs once deferred code calls a function value (%s): defer a declared function, or call it without defer", types.ExprString(at.Fun))
+		return
+	}
+	var hoist []ast.Expr // what to evaluate at the defer statement
+	var recvAddr bool    // the receiver's address is what Go takes here
+	recv := ast.Expr(nil)
+	if sel, ok := ast.Unparen(call.Fun).(*ast.SelectorExpr); ok {
+		if s := d.info.Selections[sel]; s != nil && s.Kind() == types.MethodVal {
+			recv = sel.X
+			_, ptrRecv := s.Obj().Type().(*types.Signature).Recv().Type().(*types.Pointer)
+			_, ptrX := d.info.Types[sel.X].Type.Underlying().(*types.Pointer)
+			recvAddr = ptrRecv && !ptrX
+		}
+	} else if _, lit := call.Fun.(*ast.FuncLit); !lit && d.variableRead(call.Fun) {
+		hoist = append(hoist, call.Fun)
+	}
+	if recv != nil && d.variableRead(recv) {
+		hoist = append(hoist, recv)
+	}
+	for _, a := range call.Args {
+		tv := d.info.Types[a]
+		if tv.Value != nil || tv.IsNil() || tv.IsType() {
+			continue
+		}
+		if b, ok := tv.Type.(*types.Basic); ok && b.Info()&types.IsUntyped != 0 {
+			continue // an untyped comparison: its type comes from the parameter
+		}
+		if _, lit := a.(*ast.FuncLit); lit {
+			continue
+		}
+		hoist = append(hoist, a)
+	}
+	if len(hoist) == 0 {
+		return
+	}
+	from, to := d.fset.Position(n.Pos()), d.fset.Position(n.End())
+	if from.Line != to.Line {
+		d.refuse(n, "the interpreter evaluates the arguments of a deferred call when it runs, where Go evaluates them at the defer statement: write the deferred call on one line, and tally makes it evaluate them here")
+		return
+	}
+	var names, values []string
+	for _, e := range hoist {
+		d.hoisted++
+		name := fmt.Sprintf("__tally%d", d.hoisted)
+		names = append(names, name)
+		text := string(d.src[d.fset.Position(e.Pos()).Offset:d.fset.Position(e.End()).Offset])
+		if e == recv && recvAddr {
+			text = "&(" + text + ")"
+		}
+		values = append(values, text)
+		p, q := d.fset.Position(e.Pos()), d.fset.Position(e.End())
+		d.ins = append(d.ins, insertion{off: p.Offset, line: p.Line, col: p.Column, del: q.Offset - p.Offset, text: name})
+	}
+	d.ins = append(d.ins,
+		insertion{off: from.Offset, line: from.Line, col: from.Column, text: "{ " + strings.Join(names, ", ") + " := " + strings.Join(values, ", ") + "; "},
+		insertion{off: to.Offset, line: to.Line, col: to.Column, text: " }"})
+}
+
+// funcValueCall returns the first call of a function value (not a declared function, a
+// method or a function literal) that a deferred call makes: the call itself, or one in the
+// deferred function literal's body.
+func (d *deviations) funcValueCall(call *ast.CallExpr) *ast.CallExpr {
+	isValue := func(c *ast.CallExpr) bool {
+		switch f := ast.Unparen(c.Fun).(type) {
+		case *ast.FuncLit:
+			return false
+		case *ast.Ident:
+			_, ok := d.info.Uses[f].(*types.Var)
+			return ok
+		case *ast.SelectorExpr:
+			if s := d.info.Selections[f]; s != nil {
+				return s.Kind() == types.FieldVal
+			}
+			_, ok := d.info.Uses[f.Sel].(*types.Var)
+			return ok
+		case *ast.IndexExpr:
+			tv := d.info.Types[f]
+			return !tv.IsType() && d.info.Instances[indexIdent(f)].Type == nil
+		case *ast.CallExpr, *ast.StarExpr:
+			return true
+		}
+		return false
+	}
+	if isValue(call) {
+		return call
+	}
+	lit, ok := ast.Unparen(call.Fun).(*ast.FuncLit)
+	if !ok {
+		return nil
+	}
+	var at *ast.CallExpr
+	ast.Inspect(lit.Body, func(n ast.Node) bool {
+		if c, ok := n.(*ast.CallExpr); ok && at == nil && !d.info.Types[c.Fun].IsType() && isValue(c) {
+			at = c
+		}
+		return at == nil
+	})
+	return at
+}
+
+// indexIdent is the name of a generic function instantiated by f (f[T]), or nil.
+func indexIdent(f *ast.IndexExpr) *ast.Ident {
+	switch x := f.X.(type) {
+	case *ast.Ident:
+		return x
+	case *ast.SelectorExpr:
+		return x.Sel
+	}
+	return nil
+}
+
+// variableRead reports whether e reads a variable (a field, an element, what a pointer points
+// to), which the interpreter would read late in a deferred call.
+func (d *deviations) variableRead(e ast.Expr) bool {
+	switch x := ast.Unparen(e).(type) {
+	case *ast.Ident:
+		_, ok := d.info.Uses[x].(*types.Var)
+		return ok
+	case *ast.SelectorExpr:
+		if s := d.info.Selections[x]; s != nil {
+			return s.Kind() == types.FieldVal
+		}
+		_, ok := d.info.Uses[x.Sel].(*types.Var) // a package's variable
+		return ok
+	case *ast.IndexExpr, *ast.StarExpr:
+		return true
+	}
+	return false
+}
+
+// printCall refuses a call of fmt's printing functions that would print otherwise in the
+// interpreter: a value of a type the script defines whose String (or Format, GoString) method
+// fmt would call, which the interpreter's fmt does not see; and the verbs %T, %+v and %#v on
+// values of such types, for which the interpreter prints names of its own.
+func (d *deviations) printCall(call *ast.CallExpr) {
+	sel, ok := ast.Unparen(call.Fun).(*ast.SelectorExpr)
+	if !ok {
+		return
+	}
+	fn, ok := d.info.Uses[sel.Sel].(*types.Func)
+	if !ok || fn.Pkg() == nil || fn.Pkg().Path() != "fmt" {
+		return
+	}
+	name := fn.Name()
+	if !strings.Contains(name, "rint") && name != "Errorf" {
+		return // Sscan and the like
+	}
+	args := call.Args
+	first := 0
+	if strings.HasPrefix(name, "F") || strings.HasPrefix(name, "Append") {
+		first = 1 // the writer or buffer
+	}
+	if strings.HasSuffix(name, "f") {
+		if len(args) > first {
+			if tv := d.info.Types[args[first]]; tv.Value != nil {
+				format := tv.Value.ExactString()
+				for _, verb := range []string{"%T", "%+v", "%#v"} {
+					if strings.Contains(format, verb) {
+						for _, a := range args[first+1:] {
+							if t := d.scriptType(d.info.Types[a].Type, nil); t != nil {
+								d.refuse(a, "the interpreter prints %s with names of its own for the script's type %s, where Go prints the Go names: print the fields you need instead", verb, t.Obj().Name())
+								return
+							}
+						}
+					}
+				}
+			}
+		}
+		first++
+	}
+	for _, a := range args[min(first, len(args)):] {
+		t := d.scriptType(d.info.Types[a].Type, func(n *types.Named) bool {
+			for _, m := range []string{"String", "Format", "GoString"} {
+				if obj, _, _ := types.LookupFieldOrMethod(n, false, n.Obj().Pkg(), m); obj != nil {
+					if _, isFunc := obj.(*types.Func); isFunc {
+						return true
+					}
+				}
+			}
+			return false
+		})
+		if t != nil {
+			d.refuse(a, "the interpreter's fmt does not call the String method of %s, which Go's does: call it yourself (%s.String())", t.Obj().Name(), types.ExprString(a))
+			return
+		}
+	}
+}
+
+// scriptType returns a type defined in the script that t is or holds (as elements, keys, fields
+// or what a pointer points to), and for which match holds (nil: any), or nil.
+func (d *deviations) scriptType(t types.Type, match func(*types.Named) bool) *types.Named {
+	seen := map[types.Type]bool{}
+	var walk func(t types.Type) *types.Named
+	walk = func(t types.Type) *types.Named {
+		if t == nil || seen[t] {
+			return nil
+		}
+		seen[t] = true
+		switch u := types.Unalias(t).(type) {
+		case *types.Named:
+			if o := u.Obj(); o.Pkg() != nil && o.Pkg().Path() == "main" && (match == nil || match(u)) {
+				return u
+			}
+			if o := u.Obj(); o.Pkg() == nil || o.Pkg().Path() != "main" {
+				return nil // another package's type: the interpreter prints it as Go does
+			}
+			return walk(u.Underlying())
+		case *types.Pointer:
+			return walk(u.Elem())
+		case *types.Slice:
+			return walk(u.Elem())
+		case *types.Array:
+			return walk(u.Elem())
+		case *types.Map:
+			if n := walk(u.Key()); n != nil {
+				return n
+			}
+			return walk(u.Elem())
+		case *types.Struct:
+			for i := 0; i < u.NumFields(); i++ {
+				if n := walk(u.Field(i).Type()); n != nil {
+					return n
+				}
+			}
+		}
+		return nil
+	}
+	return walk(t)
 }

@@ -105,10 +105,10 @@ func instrument(fset *token.FileSet, f *ast.File, src []byte, fixes ...insertion
 	}
 	edits := append([]insertion(nil), fixes...)
 	end := fset.Position(f.Name.End())
-	edits = append(edits, insertion{end.Offset, end.Line, end.Column, "; import __tallymark " + strconv.Quote(markPkg)})
+	edits = append(edits, insertion{off: end.Offset, line: end.Line, col: end.Column, text: "; import __tallymark " + strconv.Quote(markPkg)})
 	for i, off := range offsets {
 		p := m.pos[i]
-		edits = append(edits, insertion{off, p.Line, p.Column, fmt.Sprintf("__tallymark.At(%d); ", i+1)})
+		edits = append(edits, insertion{off: off, line: p.Line, col: p.Column, text: fmt.Sprintf("__tallymark.At(%d); ", i+1)})
 	}
 	sort.SliceStable(edits, func(a, b int) bool { return edits[a].off < edits[b].off })
 	out := make([]byte, 0, len(src)+len(edits)*24)
@@ -116,7 +116,7 @@ func instrument(fset *token.FileSet, f *ast.File, src []byte, fixes ...insertion
 	for _, e := range edits {
 		out = append(out, src[prev:e.off]...)
 		out = append(out, e.text...)
-		prev = e.off
+		prev = e.off + e.del
 	}
 	out = append(out, src[prev:]...)
 	m.ins = edits
@@ -126,6 +126,7 @@ func instrument(fset *token.FileSet, f *ast.File, src []byte, fixes ...insertion
 type insertion struct {
 	off, line, col int // where, in the original text
 	text           string
+	del            int // bytes of the original text the insertion replaces (on its line)
 }
 
 // column maps a column of the instrumented text back to the original on the same line.
@@ -133,7 +134,7 @@ func (m *marks) column(line, col int) int {
 	shift := 0
 	for _, e := range m.ins {
 		if e.line == line && e.col+shift+len(e.text) <= col {
-			shift += len(e.text)
+			shift += len(e.text) - e.del
 		}
 	}
 	return col - shift
