@@ -416,8 +416,8 @@ func (d *deviations) deferStmt(n *ast.DeferStmt) {
 		if b, ok := tv.Type.(*types.Basic); ok && b.Info()&types.IsUntyped != 0 {
 			continue // an untyped comparison: its type comes from the parameter
 		}
-		if _, lit := a.(*ast.FuncLit); lit {
-			continue
+		if containsFuncLit(a) {
+			continue // a function literal holds statements of its own, with their markers
 		}
 		hoist = append(hoist, a)
 	}
@@ -500,6 +500,16 @@ func indexIdent(f *ast.IndexExpr) *ast.Ident {
 	return nil
 }
 
+func containsFuncLit(e ast.Expr) bool {
+	found := false
+	ast.Inspect(e, func(n ast.Node) bool {
+		_, lit := n.(*ast.FuncLit)
+		found = found || lit
+		return !found
+	})
+	return found
+}
+
 // variableRead reports whether e reads a variable (a field, an element, what a pointer points
 // to), which the interpreter would read late in a deferred call.
 func (d *deviations) variableRead(e ast.Expr) bool {
@@ -560,26 +570,35 @@ func (d *deviations) printCall(call *ast.CallExpr) {
 		first++
 	}
 	for _, a := range args[min(first, len(args)):] {
-		t := d.scriptType(d.info.Types[a].Type, func(n *types.Named) bool {
-			for _, m := range []string{"String", "Format", "GoString"} {
-				if obj, _, _ := types.LookupFieldOrMethod(n, false, n.Obj().Pkg(), m); obj != nil {
-					if _, isFunc := obj.(*types.Func); isFunc {
-						return true
-					}
-				}
-			}
-			return false
-		})
+		t := d.scriptType(d.info.Types[a].Type, printMethod)
 		if t != nil {
-			d.refuse(a, "the interpreter's fmt does not call the String method of %s, which Go's does: call it yourself (%s.String())", t.Obj().Name(), types.ExprString(a))
+			d.refuse(a, "the interpreter's fmt calls the String, GoString and Format methods of %s otherwise than Go's: print the result of its String method, or the fields, instead", t.Obj().Name())
 			return
 		}
 	}
 }
 
+// printMethod reports whether t (a script type, or a pointer to one) has a method fmt looks
+// for, String, GoString or Format, with the pointer's methods too: the interpreter's fmt calls
+// them when Go's would not, or not when it would, and takes any Format for fmt's.
+func printMethod(t types.Type) bool {
+	if _, ptr := t.(*types.Pointer); !ptr {
+		t = types.NewPointer(t)
+	}
+	ms := types.NewMethodSet(t)
+	for i := 0; i < ms.Len(); i++ {
+		switch ms.At(i).Obj().Name() {
+		case "String", "GoString", "Format":
+			return true
+		}
+	}
+	return false
+}
+
 // scriptType returns a type defined in the script that t is or holds (as elements, keys, fields
-// or what a pointer points to), and for which match holds (nil: any), or nil.
-func (d *deviations) scriptType(t types.Type, match func(*types.Named) bool) *types.Named {
+// or what a pointer points to), and for which match holds of it or of the pointer to it that t
+// holds (nil: any), or nil.
+func (d *deviations) scriptType(t types.Type, match func(types.Type) bool) *types.Named {
 	seen := map[types.Type]bool{}
 	var walk func(t types.Type) *types.Named
 	walk = func(t types.Type) *types.Named {
@@ -597,6 +616,11 @@ func (d *deviations) scriptType(t types.Type, match func(*types.Named) bool) *ty
 			}
 			return walk(u.Underlying())
 		case *types.Pointer:
+			if n, ok := types.Unalias(u.Elem()).(*types.Named); ok && match != nil && match(u) {
+				if o := n.Obj(); o.Pkg() != nil && o.Pkg().Path() == "main" {
+					return n
+				}
+			}
 			return walk(u.Elem())
 		case *types.Slice:
 			return walk(u.Elem())

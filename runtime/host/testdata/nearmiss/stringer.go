@@ -5,7 +5,7 @@
 // the call: a sweep label made this way would differ between the two tables.
 //
 // prints: 3.0 dB
-// interpreter: 41:14: the interpreter's fmt does not call the String method of level
+// interpreter: 41:14: the interpreter's fmt calls the String, GoString and Format methods of level otherwise
 package main
 
 import (
