@@ -5,6 +5,7 @@ import (
 	"go/ast"
 	"go/token"
 	"go/types"
+	"sort"
 	"strings"
 
 	"github.com/traefik/yaegi/stdlib"
@@ -38,6 +39,7 @@ func prepare(fset *token.FileSet, f *ast.File, path string, src []byte) (*prepar
 	}
 	d := &deviations{fset: fset, info: info, path: path, src: src}
 	d.inspect(f)
+	d.optionalInterfaces(f)
 	if d.err != nil {
 		return nil, d.err
 	}
@@ -124,6 +126,7 @@ func (d *deviations) inspect(f *ast.File) {
 			d.deferStmt(n)
 		case *ast.CallExpr:
 			d.printCall(n)
+			d.variadicCall(n)
 		}
 		return true
 	})
@@ -641,4 +644,100 @@ func (d *deviations) scriptType(t types.Type, match func(types.Type) bool) *type
 		return nil
 	}
 	return walk(t)
+}
+
+// optionalInterfaces refuses a type of the script that implements two of tally's interfaces
+// neither of which holds the other, such as link.Block and link.Named. tally's compiled code
+// asks a block for the second by a type assertion (link.NameOf, a code's Rate, a block's Err);
+// the interpreter hands it the value wrapped as the first alone, so the answer would be no
+// where Go's is yes.
+func (d *deviations) optionalInterfaces(f *ast.File) {
+	var ifaces []*types.TypeName
+	seen := map[*types.Package]bool{}
+	var visit func(p *types.Package)
+	visit = func(p *types.Package) {
+		if seen[p] || !strings.HasPrefix(p.Path(), "tally/") {
+			return
+		}
+		seen[p] = true
+		for _, name := range p.Scope().Names() {
+			if tn, ok := p.Scope().Lookup(name).(*types.TypeName); ok && tn.Exported() {
+				if in, ok := tn.Type().Underlying().(*types.Interface); ok && in.NumMethods() > 0 {
+					ifaces = append(ifaces, tn)
+				}
+			}
+		}
+		for _, q := range p.Imports() {
+			visit(q)
+		}
+	}
+	for _, obj := range d.info.Uses {
+		if pn, ok := obj.(*types.PkgName); ok {
+			visit(pn.Imported())
+		}
+	}
+	sort.Slice(ifaces, func(i, j int) bool {
+		a, b := ifaces[i], ifaces[j]
+		return a.Pkg().Path() < b.Pkg().Path() || a.Pkg().Path() == b.Pkg().Path() && a.Name() < b.Name()
+	})
+	for id, obj := range d.info.Defs {
+		tn, ok := obj.(*types.TypeName)
+		if !ok || tn.Parent() == nil || types.IsInterface(tn.Type()) {
+			continue
+		}
+		var impl []*types.TypeName
+		for _, in := range ifaces {
+			if types.Implements(types.NewPointer(tn.Type()), in.Type().Underlying().(*types.Interface)) {
+				impl = append(impl, in)
+			}
+		}
+		for _, a := range impl {
+			for _, b := range impl {
+				ia, ib := a.Type().Underlying().(*types.Interface), b.Type().Underlying().(*types.Interface)
+				if a == b || types.Implements(ia, ib) || types.Implements(ib, ia) {
+					continue
+				}
+				d.refuse(id, "the interpreter hands tally's compiled code a %s as one interface at a time: passed as %s.%s it is not seen to be a %s.%s too, as Go sees it: keep to one of tally's interfaces per type, or run the script compiled with go run", tn.Name(), a.Pkg().Name(), a.Name(), b.Pkg().Name(), b.Name())
+				return
+			}
+		}
+	}
+}
+
+// variadicCall refuses a value of a script type passed straight into the ...I parameter (I an
+// interface) of tally's compiled code, such as a block of the script's own to link.Chain: the
+// interpreter fails there while running. Through a variable of type I it passes.
+func (d *deviations) variadicCall(call *ast.CallExpr) {
+	var id *ast.Ident
+	switch f := ast.Unparen(call.Fun).(type) {
+	case *ast.Ident:
+		id = f
+	case *ast.SelectorExpr:
+		id = f.Sel
+	default:
+		return
+	}
+	fn, ok := d.info.Uses[id].(*types.Func)
+	if !ok || fn.Pkg() == nil || !strings.HasPrefix(fn.Pkg().Path(), "tally/") || call.Ellipsis.IsValid() {
+		return
+	}
+	sig := fn.Type().(*types.Signature)
+	if !sig.Variadic() {
+		return
+	}
+	elem := sig.Params().At(sig.Params().Len() - 1).Type().(*types.Slice).Elem()
+	if !types.IsInterface(elem) {
+		return
+	}
+	for _, a := range call.Args[min(sig.Params().Len()-1, len(call.Args)):] {
+		t := d.info.Types[a].Type
+		if t == nil || types.IsInterface(t) {
+			continue
+		}
+		if n := d.scriptType(t, nil); n != nil {
+			name := types.TypeString(elem, func(p *types.Package) string { return p.Name() })
+			d.refuse(a, "the interpreter cannot pass a %s straight to %s's ...%s: assign it to a variable of type %s first (var b %s = …) and pass that", n.Obj().Name(), fn.Name(), name, name, name)
+			return
+		}
+	}
 }
