@@ -37,7 +37,7 @@ func prepare(fset *token.FileSet, f *ast.File, path string, src []byte) (*prepar
 	if info == nil {
 		return &prepared{src: src}, nil
 	}
-	d := &deviations{fset: fset, info: info, path: path, src: src}
+	d := &deviations{fset: fset, info: info, path: path, src: src, file: f}
 	d.inspect(f)
 	d.optionalInterfaces(f)
 	if d.err != nil {
@@ -83,6 +83,7 @@ func (p *prepared) unsupported(line, col int) string {
 
 type deviations struct {
 	fset    *token.FileSet
+	file    *ast.File
 	info    *types.Info
 	path    string
 	src     []byte
@@ -159,8 +160,61 @@ func (d *deviations) selector(n *ast.SelectorExpr, stack []ast.Node) {
 		if _, ptr := sig.Recv().Type().(*types.Pointer); ptr || types.IsInterface(sig.Recv().Type()) || !variable(d.info, n.X) {
 			return
 		}
-		d.refuse(n, "the interpreter binds the method value %s to the variable %s, where Go binds a copy made here: copy the receiver into a variable that stays as it is and call the method on it in a function literal", name, types.ExprString(n.X))
+		if id, ok := ast.Unparen(n.X).(*ast.Ident); ok && !d.changed(d.info.Uses[id]) {
+			if _, ptr := d.info.Types[id].Type.Underlying().(*types.Pointer); !ptr {
+				return // a variable that never changes: its copy and itself are alike
+			}
+		}
+		d.refuse(n, "the interpreter binds the method value %s to the variable %s, where Go binds a copy made here, and %s changes later: take the method value from a copy that does not change", name, types.ExprString(n.X), types.ExprString(n.X))
 	}
+}
+
+// changed reports whether the script assigns v (or a field or element of it) after declaring
+// it, takes its address, or calls a method with a pointer receiver on it.
+func (d *deviations) changed(v types.Object) bool {
+	rooted := func(e ast.Expr) bool {
+		for {
+			switch x := e.(type) {
+			case *ast.Ident:
+				return d.info.Uses[x] == v
+			case *ast.SelectorExpr:
+				e = x.X
+			case *ast.IndexExpr:
+				e = x.X
+			case *ast.ParenExpr:
+				e = x.X
+			default:
+				return false
+			}
+		}
+	}
+	found := false
+	ast.Inspect(d.file, func(n ast.Node) bool {
+		switch s := n.(type) {
+		case *ast.AssignStmt:
+			for _, e := range s.Lhs {
+				found = found || rooted(e)
+			}
+		case *ast.IncDecStmt:
+			found = found || rooted(s.X)
+		case *ast.RangeStmt:
+			if s.Tok == token.ASSIGN {
+				for _, e := range []ast.Expr{s.Key, s.Value} {
+					found = found || e != nil && rooted(e)
+				}
+			}
+		case *ast.UnaryExpr:
+			found = found || s.Op == token.AND && rooted(s.X)
+		case *ast.SelectorExpr:
+			if sel := d.info.Selections[s]; sel != nil && sel.Kind() == types.MethodVal {
+				_, ptr := sel.Obj().Type().(*types.Signature).Recv().Type().(*types.Pointer)
+				_, ptrX := d.info.Types[s.X].Type.Underlying().(*types.Pointer)
+				found = found || ptr && !ptrX && rooted(s.X)
+			}
+		}
+		return !found
+	})
+	return found
 }
 
 // variable reports whether e denotes a variable (or what a pointer variable points to), whose
