@@ -187,7 +187,7 @@ func translate(path string, err error, mk *marks) error {
 	var list scanner.ErrorList
 	if errors.As(err, &list) && len(list) > 0 {
 		p := list[0].Pos
-		return &ScriptError{Pos: fmt.Sprintf("%s:%d:%d", path, p.Line, p.Column), Msg: list[0].Msg}
+		return &ScriptError{Pos: fmt.Sprintf("%s:%d:%d", path, p.Line, p.Column), Msg: syntaxMessage(path, list[0])}
 	}
 	s := err.Error()
 	if m := posRE.FindStringSubmatch(firstLine(s)); m != nil {
