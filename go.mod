@@ -1,12 +1,13 @@
 module tally
 
-go 1.26
+go 1.26.0
 
 require (
 	github.com/fsnotify/fsnotify v1.10.1
 	github.com/traefik/yaegi v0.16.1
 	golang.org/x/image v0.30.0
-	golang.org/x/sys v0.13.0
+	golang.org/x/sys v0.49.0
+	golang.org/x/tools v0.52.0
 	gonum.org/v1/gonum v0.17.0
 	gonum.org/v1/plot v0.17.0
 )

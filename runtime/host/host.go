@@ -91,10 +91,15 @@ func Run(ctx context.Context, path string, cfg Config) error {
 	if err != nil {
 		return translate(path, err, nil)
 	}
+	prep, err := prepare(fset, file, path, src)
+	if err != nil {
+		return err
+	}
 	if err := checkLimits(fset, file, path); err != nil {
 		return err
 	}
-	marked, mk := instrument(fset, file, src)
+	marked, mk := instrument(fset, file, prep.src, prep.fixes...)
+	mk.prep = prep
 	runner.Hosted()
 	opts := &runner.Options{Context: ctx, Script: path, Source: src, Mode: "interpreted", Workers: cfg.Workers,
 		Seed: cfg.Seed, SeedSet: cfg.SeedSet, Quiet: cfg.Quiet, Log: cfg.Log, Done: cfg.Done, Long: cfg.Long,
@@ -198,16 +203,20 @@ func translate(path string, err error, mk *marks) error {
 	var list scanner.ErrorList
 	if errors.As(err, &list) && len(list) > 0 {
 		p := list[0].Pos
-		return &ScriptError{Pos: fmt.Sprintf("%s:%d:%d", path, p.Line, p.Column), Msg: list[0].Msg}
+		return &ScriptError{Pos: fmt.Sprintf("%s:%d:%d", path, p.Line, p.Column), Msg: syntaxMessage(path, list[0])}
 	}
 	s := err.Error()
 	if m := posRE.FindStringSubmatch(firstLine(s)); m != nil {
 		line, _ := strconv.Atoi(m[2])
 		col, _ := strconv.Atoi(m[3])
+		msg := strings.TrimSpace(m[4])
 		if mk != nil {
 			col = mk.column(line, col)
+			if mk.prep != nil {
+				msg = mk.prep.unsupported(line, col)
+			}
 		}
-		return &ScriptError{Pos: fmt.Sprintf("%s:%d:%d", path, line, col), Msg: strings.TrimSpace(m[4])}
+		return &ScriptError{Pos: fmt.Sprintf("%s:%d:%d", path, line, col), Msg: msg}
 	}
 	return &ScriptError{Pos: path, Msg: s}
 }

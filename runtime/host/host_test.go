@@ -84,8 +84,8 @@ func TestScriptErrorsPointAtScriptAndKeepOutputs(t *testing.T) {
 	cases := []struct {
 		name, from, to, pos, msg string
 	}{
-		{"syntax", `x.Sweep("ebn0_db", 0, 2, 4, 6)`, `x.Sweep("ebn0_db", 0, 2 4, 6)`, `:17:\d+$`, "missing ','"},
-		{"type", `x.Sweep("ebn0_db", 0, 2, 4, 6)`, `x.Sweep("ebn0_db", "0")`, `:17:\d+$`, "cannot convert"},
+		{"syntax", `x.Sweep("ebn0_db", 0, 2, 4, 6)`, `x.Sweep("ebn0_db", 0, 2 4, 6)`, `:17:\d+$`, "syntax error: unexpected literal 4 in argument list; possibly missing comma or )"},
+		{"type", `x.Sweep("ebn0_db", 0, 2, 4, 6)`, `x.Sweep("ebn0_db", "0")`, `:17:\d+$`, "cannot use \"0\" (untyped string constant) as float64 value in argument to x.Sweep"},
 		{"panic", `x.Sweep("ebn0_db", 0, 2, 4, 6)`, "var z []int\n\t_ = z[5]", `:18:2$`, "out of range"},
 		{"bad parameter", `x.Stop(stop.Errors(200), stop.Bits(1e6))`, `x.Stop(stop.Errors(0), stop.Bits(1e6))`, `:\d+:2$`, "stop.Errors: count 0"},
 		{"unknown parameter", `p.Get("ebn0_db")), dem)`, `p.Get("snr")), dem)`, `:\d+:3$`, `no swept parameter "snr"`},

@@ -27,6 +27,7 @@ type marks struct {
 	pos  []token.Position
 	ins  []insertion  // what was inserted, by offset
 	last atomic.Int64 // 1 + index of the last marker reached; 0 before any
+	prep *prepared    // the type-checked script (nil: not checked)
 }
 
 // where is the position of the last marker reached, "" before any.
@@ -43,8 +44,8 @@ func (m *marks) exports() interp.Exports {
 	return interp.Exports{markPkg + "/mark": {"At": reflect.ValueOf(func(i int) { m.last.Store(int64(i)) })}}
 }
 
-// instrument returns src with markers inserted, and the marker table.
-func instrument(fset *token.FileSet, f *ast.File, src []byte) ([]byte, *marks) {
+// instrument returns src with markers and the fixes inserted, and the marker table.
+func instrument(fset *token.FileSet, f *ast.File, src []byte, fixes ...insertion) ([]byte, *marks) {
 	m := &marks{}
 	var offsets []int
 	var list func(stmts []ast.Stmt, inLoop bool)
@@ -99,15 +100,15 @@ func instrument(fset *token.FileSet, f *ast.File, src []byte) ([]byte, *marks) {
 			visit(fd.Body, false)
 		}
 	}
-	if len(offsets) == 0 {
+	if len(offsets) == 0 && len(fixes) == 0 {
 		return src, m
 	}
-	var edits []insertion
+	edits := append([]insertion(nil), fixes...)
 	end := fset.Position(f.Name.End())
-	edits = append(edits, insertion{end.Offset, end.Line, end.Column, "; import __tallymark " + strconv.Quote(markPkg)})
+	edits = append(edits, insertion{off: end.Offset, line: end.Line, col: end.Column, text: "; import __tallymark " + strconv.Quote(markPkg)})
 	for i, off := range offsets {
 		p := m.pos[i]
-		edits = append(edits, insertion{off, p.Line, p.Column, fmt.Sprintf("__tallymark.At(%d); ", i+1)})
+		edits = append(edits, insertion{off: off, line: p.Line, col: p.Column, text: fmt.Sprintf("__tallymark.At(%d); ", i+1)})
 	}
 	sort.SliceStable(edits, func(a, b int) bool { return edits[a].off < edits[b].off })
 	out := make([]byte, 0, len(src)+len(edits)*24)
@@ -115,7 +116,7 @@ func instrument(fset *token.FileSet, f *ast.File, src []byte) ([]byte, *marks) {
 	for _, e := range edits {
 		out = append(out, src[prev:e.off]...)
 		out = append(out, e.text...)
-		prev = e.off
+		prev = e.off + e.del
 	}
 	out = append(out, src[prev:]...)
 	m.ins = edits
@@ -125,6 +126,7 @@ func instrument(fset *token.FileSet, f *ast.File, src []byte) ([]byte, *marks) {
 type insertion struct {
 	off, line, col int // where, in the original text
 	text           string
+	del            int // bytes of the original text the insertion replaces (on its line)
 }
 
 // column maps a column of the instrumented text back to the original on the same line.
@@ -132,7 +134,7 @@ func (m *marks) column(line, col int) int {
 	shift := 0
 	for _, e := range m.ins {
 		if e.line == line && e.col+shift+len(e.text) <= col {
-			shift += len(e.text)
+			shift += len(e.text) - e.del
 		}
 	}
 	return col - shift
