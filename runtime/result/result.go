@@ -25,6 +25,8 @@ type Run struct {
 	Theory       []string   `json:"theory"`           // theory curve names
 	Points       []Point    `json:"points"`
 	Targets      []Target   `json:"targets,omitempty"`
+	Limits       []Limit    `json:"limits,omitempty"` // theory curves no link can beat, per tap
+	Notes        []string   `json:"notes,omitempty"`  // findings the summary must show
 	Interrupted  bool       `json:"interrupted"`
 	// Scatter is one frame's received samples at a chosen point, for the constellation plot
 	// (not part of run.json: the plot is the record).
@@ -77,6 +79,13 @@ type Target struct {
 	Gain     float64 `json:"gain_db,omitempty"`
 	GainOver string  `json:"gain_over,omitempty"`
 	Note     string  `json:"note,omitempty"`
+}
+
+// Limit says that a theory curve is a limit no link can beat on a tap (the normal
+// approximation on the frame error rate, say): plots draw it in that tap's panel.
+type Limit struct {
+	Tap   string `json:"tap"`
+	Curve string `json:"curve"`
 }
 
 // Scatter is what the receiver saw in one frame of one point.

@@ -32,6 +32,7 @@ type Experiment struct {
 	sweepRules []stop.SweepRule
 	scatterAt  []float64
 	theory     []curve
+	limits     []limit
 	targets    []target
 	confidence float64
 	method     string

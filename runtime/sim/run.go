@@ -128,6 +128,7 @@ func (x *Experiment) Execute() (*result.Run, error) {
 	run.End = time.Now().UTC()
 	alignTaps(run)
 	x.findTargets(run)
+	x.checkLimits(run)
 	if !run.Interrupted {
 		if err := x.scatter(run, points, seed); err != nil {
 			return nil, err

@@ -1,0 +1,53 @@
+package sim
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// ReadFile reads inside the script's folder only: the standard library's os.Root is the
+// reference for what escapes (absolute paths, "..", symbolic links out).
+func TestReadScriptFile(t *testing.T) {
+	top := t.TempDir()
+	dir := filepath.Join(top, "exp")
+	if err := os.MkdirAll(filepath.Join(dir, "codes"), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	script := filepath.Join(dir, "x.go")
+	write := func(p, s string) {
+		if err := os.WriteFile(p, []byte(s), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	write(filepath.Join(dir, "codes", "a.alist"), "7 3\n")
+	write(filepath.Join(top, "secret"), "outside")
+	if got, err := readScriptFile(script, "codes/a.alist"); err != nil || got != "7 3\n" {
+		t.Fatalf("inside: %q, %v", got, err)
+	}
+	symOK := os.Symlink(filepath.Join(top, "secret"), filepath.Join(dir, "codes", "link")) == nil
+	if err := os.Symlink(filepath.Join("codes", "a.alist"), filepath.Join(dir, "inner")); err != nil {
+		symOK = false
+	}
+	refused := map[string]string{
+		"../secret":             "inside the script's folder",
+		"codes/../../secret":    "inside the script's folder",
+		filepath.Join(top, "x"): "inside the script's folder",
+		"":                      "inside the script's folder",
+		"codes/missing.alist":   "no file",
+		"codes":                 "not a regular file",
+	}
+	if symOK {
+		refused["codes/link"] = "leads outside"
+		if got, err := readScriptFile(script, "inner"); err != nil || got != "7 3\n" {
+			t.Errorf("a link inside the folder: %q, %v", got, err)
+		}
+	}
+	for name, want := range refused {
+		got, err := readScriptFile(script, name)
+		if err == nil || !strings.Contains(err.Error(), want) || !strings.HasPrefix(err.Error(), "sim.ReadFile: ") {
+			t.Errorf("%q: %q, %v; want an error with %q", name, got, err, want)
+		}
+	}
+}
