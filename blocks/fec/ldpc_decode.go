@@ -36,13 +36,15 @@ const (
 // fresh beliefs and decoding converges in about half the iterations (Hocevar, A reduced
 // complexity decoder architecture via layered decoding of LDPC codes, IEEE SiPS, 2004).
 // Decoding stops as soon as the hard decisions satisfy every check (early stopping), or after
-// MaxIterations (default 50); the decisions at the message positions go to f.Out.
+// MaxIter iterations (default 50, set by Iterations); the decisions at the message positions go
+// to f.Out. Without LLRs from the demodulator it decodes the hard decisions as LLRs of ±1
+// (min-sum then works as on soft input; sum-product is not at its best).
 //
 // Three counters (link.Link.Count) report the frame just decoded: Failures, the codewords left
 // with an unsatisfied check (detected errors); Undetected, those that satisfied every check but
 // differ from the source bits (a wrong codeword; counted when the LDPC code is the outermost
-// code, its message the source bits); and Iterations, the iterations used out of the maximum
-// (its rate is the mean number of iterations over MaxIterations).
+// code, its message the source bits); and IterationsUsed, the iterations used out of the
+// maximum.
 type LDPCDecoder struct {
 	code    *LDPCCode
 	Rule    LDPCRule
@@ -133,7 +135,8 @@ func (d *LDPCDecoder) Undetected(_ *link.Frame) (words, wrong int64) {
 	return d.words, d.wrong
 }
 
-// Iterations used is a link counter: codewords × MaxIterations, and the iterations used.
+// IterationsUsed is a link counter: codewords × MaxIter, and the iterations used; its rate is
+// the mean number of iterations over MaxIter.
 func (d *LDPCDecoder) IterationsUsed(_ *link.Frame) (budget, used int64) {
 	return d.words * int64(d.MaxIter), d.iters
 }

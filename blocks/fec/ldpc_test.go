@@ -10,6 +10,7 @@ import (
 	"strings"
 	"testing"
 
+	"tally/blocks/channel"
 	"tally/blocks/fec"
 	"tally/blocks/link"
 	"tally/blocks/rng"
@@ -371,6 +372,21 @@ func TestLDPCPunctureAndErrors(t *testing.T) {
 	got := run(t, softLink(600, 4, c.Encoder(), c.Decoder()), 20, 5)
 	if got[link.TapBER].Errors != 0 || got[link.TapPre].Trials != 20*2*570 {
 		t.Errorf("punctured at 4 dB: %+v", got)
+	}
+	// With a random interleaver between the encoder and the modulator, the deinterleaver hands
+	// the decoder its LLRs in code order: the same clean decoding at 4 dB, and the pre-FEC tap
+	// still counts the channel's decisions.
+	il := fec.RandomInterleaver()
+	got = run(t, link.Chain(srcBits(600), c.Encoder(), il.Interleave(), &bpsk{}, channel.AWGN(4), &bpskDemod{soft: true},
+		il.Deinterleave(), c.Decoder()), 20, 5)
+	if got[link.TapBER].Errors != 0 || got[link.TapPre].Errors == 0 {
+		t.Errorf("interleaved at 4 dB: %+v", got)
+	}
+	p := fec.Polar(256, 128)
+	got = run(t, link.Chain(srcBits(256), p.Encoder(), il.Interleave(), &bpsk{}, channel.AWGN(5), &bpskDemod{soft: true},
+		il.Deinterleave(), p.Decoder()), 20, 6)
+	if got[link.TapBER].Errors != 0 {
+		t.Errorf("polar interleaved at 5 dB: %+v", got)
 	}
 	if err := fec.LDPCPEG(600, 300, 3).Puncture(400).Err(); err == nil || !strings.Contains(err.Error(), "Puncture(400)") {
 		t.Errorf("Puncture(400): %v", err)

@@ -22,7 +22,8 @@ import (
 // g(a, b, u) = b + (1 − 2u)·a, and a path's metric grows by ln(1 + e^(−(1−2u)·L)) for each bit
 // u it decides against the LLR L. With a CRC (PolarCode.CRC) the decoder returns the most likely
 // path whose CRC checks (CA-SCL, Niu and Chen, CRC-aided decoding of polar codes, IEEE Commun.
-// Lett., 2012), else the most likely path, and counts the word in CRCFailures.
+// Lett., 2012), else the most likely path, and counts the word in CRCFailures. Without LLRs from
+// the demodulator it decodes the hard decisions as LLRs of ±1.
 type PolarDecoder struct {
 	code *PolarCode
 	L    int // list size

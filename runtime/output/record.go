@@ -11,7 +11,23 @@ import (
 // parameters so a reader need not know the tap layout.
 type record struct {
 	*result.Run
-	Points []recordPoint `json:"points"`
+	Points  []recordPoint  `json:"points"`
+	Targets []recordTarget `json:"targets,omitempty"`
+}
+
+// recordTarget is a target with the ends of its interval null where the points' limits do not
+// close it (±Inf, which JSON cannot hold).
+type recordTarget struct {
+	result.Target
+	Low  *float64 `json:"x_low"`
+	High *float64 `json:"x_high"`
+}
+
+func finite(v float64) *float64 {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return nil
+	}
+	return &v
 }
 
 type recordPoint struct {
@@ -28,6 +44,9 @@ type recordPoint struct {
 // Record is run.json.
 func Record(r *result.Run) ([]byte, error) {
 	rec := record{Run: r}
+	for _, t := range r.Targets {
+		rec.Targets = append(rec.Targets, recordTarget{Target: t, Low: finite(t.Low), High: finite(t.High)})
+	}
 	for _, p := range r.Points {
 		rp := recordPoint{Params: map[string]string{}, Point: p}
 		for _, v := range p.Theory {
