@@ -18,7 +18,7 @@ import (
 	"tally/blocks/theory"
 )
 
-var longCodes = flag.Bool("fec.long", false, "run the long LDPC and polar checks (minutes)")
+var longCodes = flag.Bool("fec.long", false, "rebuild the PEG (20000, 10000) matrix and run the long LDPC check (minutes)")
 
 // hammingAlist is the parity-check matrix of the (7,4) Hamming code in systematic form,
 // H = [I₃ | Pᵀ] of Lin and Costello, Error Control Coding, 2nd ed., 2004, Example 3.1.
