@@ -140,6 +140,21 @@ func TestLDPCEncodersSatisfyH(t *testing.T) {
 			}
 		}
 	}
+	// Every column of even weight: the rows of H sum to zero, so rank(H) < M and the elimination
+	// finds more message bits than N − M (linear algebra; no source needed).
+	even := fec.LDPCLifted([][]int{{0, 1, 2, 3, 4, 5}, {0, 2, 4, 1, 3, 0}}, 8)
+	if err := even.Err(); err != nil {
+		t.Fatal(err)
+	}
+	if even.K <= even.N-even.M {
+		t.Errorf("rank-deficient H: K = %d, want more than N − M = %d", even.K, even.N-even.M)
+	}
+	msg, cw := make([]byte, even.K), make([]byte, even.N)
+	r.Bits(msg)
+	even.Encode(msg, cw)
+	if s := even.Syndrome(cw); s != 0 {
+		t.Errorf("rank-deficient H: %d unsatisfied checks", s)
+	}
 	if c := codes[2]; c.K != 6*16 {
 		t.Errorf("802.11n-style lifting: K = %d, want 96 (full rank)", c.K)
 	}
