@@ -27,6 +27,7 @@ type Run struct {
 	Targets      []Target   `json:"targets,omitempty"`
 	Limits       []Limit    `json:"limits,omitempty"` // theory curves no link can beat, per tap
 	Notes        []string   `json:"notes,omitempty"`  // findings the summary must show
+	Inputs       []Input    `json:"inputs,omitempty"` // files the script read (sim.ReadFile)
 	Interrupted  bool       `json:"interrupted"`
 	// Scatter is one frame's received samples at a chosen point, for the constellation plot
 	// (not part of run.json: the plot is the record).
@@ -79,6 +80,12 @@ type Target struct {
 	Gain     float64 `json:"gain_db,omitempty"`
 	GainOver string  `json:"gain_over,omitempty"`
 	Note     string  `json:"note,omitempty"`
+}
+
+// Input is a file a script read, by its name relative to the script and its SHA-256.
+type Input struct {
+	Name   string `json:"name"`
+	SHA256 string `json:"sha256"`
 }
 
 // Limit says that a theory curve is a limit no link can beat on a tap (the normal

@@ -21,6 +21,7 @@ import (
 
 	"tally/blocks/link"
 	"tally/blocks/stop"
+	"tally/runtime/result"
 )
 
 // Experiment is one experiment: its sweep, link, rules and curves.
@@ -33,6 +34,7 @@ type Experiment struct {
 	scatterAt  []float64
 	theory     []curve
 	limits     []limit
+	inputs     []result.Input // files read by ReadFile
 	targets    []target
 	confidence float64
 	method     string

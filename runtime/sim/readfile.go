@@ -1,12 +1,16 @@
 package sim
 
 import (
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"fmt"
 	"io"
 	"io/fs"
 	"os"
 	"path/filepath"
+
+	"tally/runtime/result"
 )
 
 // maxReadFile bounds what ReadFile returns: data for a block, not a data set.
@@ -20,12 +24,15 @@ const maxReadFile = 64 << 20
 // The name is relative to the script's folder and may not leave it: an absolute path, a ".."
 // that climbs out, or a symbolic link that points outside is refused. It is the one file access
 // a sandboxed script has, and it only reads. A file that cannot be read stops the script with
-// its name.
+// its name. The file's SHA-256 goes into run.json beside the script's (inputs), since the
+// results depend on it.
 func (x *Experiment) ReadFile(name string) string {
 	text, err := readScriptFile(x.opts.Script, name)
 	if err != nil {
 		fail(err)
 	}
+	sum := sha256.Sum256([]byte(text))
+	x.inputs = append(x.inputs, result.Input{Name: filepath.ToSlash(name), SHA256: hex.EncodeToString(sum[:])})
 	return text
 }
 

@@ -1,10 +1,14 @@
 package sim
 
 import (
+	"crypto/sha256"
+	"encoding/hex"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"tally/blocks/stop"
 )
 
 // ReadFile reads inside the script's folder only: the standard library's os.Root is the
@@ -49,5 +53,30 @@ func TestReadScriptFile(t *testing.T) {
 		if err == nil || !strings.Contains(err.Error(), want) || !strings.HasPrefix(err.Error(), "sim.ReadFile: ") {
 			t.Errorf("%q: %q, %v; want an error with %q", name, got, err, want)
 		}
+	}
+}
+
+// The files a script reads are recorded in the run with their SHA-256 (crypto/sha256 is the
+// reference), so run.json says what the results depend on.
+func TestReadFileRecorded(t *testing.T) {
+	dir := t.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, "h.alist"), []byte("7 3\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	x := NewWith("inputs", &Options{Quiet: true, Workers: 1, Script: filepath.Join(dir, "x.go")})
+	if got := x.ReadFile("h.alist"); got != "7 3\n" {
+		t.Fatalf("read %q", got)
+	}
+	x.Sweep("ebn0_db", 4)
+	x.Link(progressLink)
+	x.Stop(stop.Bits(512))
+	r, err := x.Execute()
+	if err != nil {
+		t.Fatal(err)
+	}
+	sum := sha256.Sum256([]byte("7 3\n"))
+	want := hex.EncodeToString(sum[:])
+	if len(r.Inputs) != 1 || r.Inputs[0].Name != "h.alist" || r.Inputs[0].SHA256 != want {
+		t.Errorf("inputs %+v", r.Inputs)
 	}
 }

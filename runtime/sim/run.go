@@ -103,6 +103,7 @@ func (x *Experiment) Execute() (*result.Run, error) {
 		run.Params = append(run.Params, p.name)
 	}
 	run.Labels = x.labels()
+	run.Inputs = x.inputs
 	for _, c := range x.theory {
 		run.Theory = append(run.Theory, c.name)
 	}
