@@ -30,10 +30,10 @@ func biawgnDirect(esn0 float64) (c, v float64) {
 func TestBIAWGNAgainstDefinition(t *testing.T) {
 	for _, db := range []float64{-10, -3, 0, 2, 5, 8} {
 		c, v := biawgnDirect(theory.FromDB(db))
-		if got := theory.BIAWGNCapacity(db); math.Abs(got-c) > 1e-9 {
+		if got := theory.BIAWGNCapacity(db); math.Abs(got-c) > 1e-12 {
 			t.Errorf("C(%v dB) = %.12f, direct integration %.12f", db, got, c)
 		}
-		if got := theory.BIAWGNDispersion(db); math.Abs(got-v) > 1e-8 {
+		if got := theory.BIAWGNDispersion(db); math.Abs(got-v) > 1e-12 {
 			t.Errorf("V(%v dB) = %.12f, direct integration %.12f", db, got, v)
 		}
 	}
