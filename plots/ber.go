@@ -134,8 +134,12 @@ func BER(r *result.Run) (*Figure, error) {
 	}
 	// Theory curves are drawn after the measured ones so they stay visible through the bars, but
 	// they do not stretch the axis: at most two decades below the lowest measured figure.
-	var theoryY []float64
+	var theoryY, theoryFY []float64
 	for k, name := range r.Theory {
+		panel, ty := left, &theoryY
+		if frames && limitOn(r, name) == link.TapFER {
+			panel, ty = right, &theoryFY // a limit on the frame error rate goes beside the FER
+		}
 		for ci, c := range cs {
 			cl := theoryColour(ci, many)
 			s := &series{}
@@ -146,10 +150,10 @@ func BER(r *result.Run) (*Figure, error) {
 					v = p.Theory[k]
 				}
 				s.y = append(s.y, v)
-				theoryY = append(theoryY, v)
+				*ty = append(*ty, v)
 			}
 			s.line = draw.LineStyle{Color: cl, Width: vg.Points(1), Dashes: theoryDashes[k%len(theoryDashes)]}
-			left.Add(s)
+			panel.Add(s)
 			if ci == 0 {
 				legend.Add("theory: "+name, &series{line: draw.LineStyle{Color: theoryCl, Width: s.line.Width, Dashes: s.line.Dashes}})
 			}
@@ -168,7 +172,7 @@ func BER(r *result.Run) (*Figure, error) {
 	setY(left, ys, theoryY)
 	panels := []*plot.Plot{left}
 	if frames {
-		setY(right, fys, nil)
+		setY(right, fys, theoryFY)
 		panels = append(panels, right)
 	}
 	for _, p := range panels {
@@ -186,6 +190,16 @@ func BER(r *result.Run) (*Figure, error) {
 		Width:   w,
 		Height:  4.6 * vg.Inch,
 	}, nil
+}
+
+// limitOn is the tap a theory curve is a limit on ("" when it is an ordinary theory curve).
+func limitOn(r *result.Run, curve string) string {
+	for _, l := range r.Limits {
+		if l.Curve == curve {
+			return l.Tap
+		}
+	}
+	return ""
 }
 
 // theoryColour is neutral for a single curve, else the curve's own colour.

@@ -1,5 +1,6 @@
-// Package fec holds the forward error correction blocks: block codes (Hamming, Reed–Solomon),
-// the convolutional code with its Viterbi decoder and puncturing, and interleavers.
+// Package fec holds the forward error correction blocks: block codes (Hamming, Reed–Solomon,
+// BCH), the convolutional code with its Viterbi decoder and puncturing, LDPC codes with
+// message-passing decoders, polar codes with SC and CRC-aided list decoding, and interleavers.
 //
 // Every code is a small value that hands out a pair of blocks, an encoder and its decoder, so
 // the link reads like the block diagram:
@@ -26,7 +27,9 @@
 //     and the count is unchanged.
 //   - The first decoder reads f.Hard (hard decoders) or f.LLR (soft decoders) and writes the
 //     information bits it found to f.Out. A later decoder or deinterleaver sees f.Out set and
-//     works on f.Out instead: decoders pass on hard bits only.
+//     works on f.Out instead: decoders pass on hard bits only. So the soft decoders of LDPC and
+//     polar codes are inner codes (right after the demodulator or its deinterleaver), and BCH,
+//     RS or Hamming codes around them outer codes.
 //   - The last decoder leaves in f.Out as many bits as the source made; the link counts them
 //     against f.Bits (tap "ber") and counts frames with any wrong bit (tap "fer").
 //

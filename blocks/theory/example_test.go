@@ -21,3 +21,16 @@ func ExampleEbN0For() {
 	fmt.Printf("BPSK needs %.1f dB for BER 1e-5\n", db)
 	// Output: BPSK needs 9.6 dB for BER 1e-5
 }
+
+func ExampleNormalApprox() {
+	// What no code of 512 information bits in 1024 BPSK symbols can beat, against the Shannon
+	// limit of rate 1/2 (infinite length).
+	fmt.Printf("Shannon limit of rate 1/2: %.2f dB\n", theory.ShannonLimit(0.5))
+	for _, db := range []float64{1, 2} {
+		fmt.Printf("(1024, 512) at %.0f dB: FER ≥ about %.1e\n", db, theory.NormalApprox(1024, 512, db))
+	}
+	// Output:
+	// Shannon limit of rate 1/2: 0.19 dB
+	// (1024, 512) at 1 dB: FER ≥ about 3.6e-03
+	// (1024, 512) at 2 dB: FER ≥ about 7.6e-10
+}

@@ -86,7 +86,7 @@ func TestJSONNonFiniteIsNull(t *testing.T) {
 	if tr := read.Targets[0]; !math.IsInf(tr.Low, -1) || !math.IsInf(tr.High, 1) || tr.X != 9.9 || tr.Open != "open above" {
 		t.Errorf("run.json read back: target %+v, want the open ends as ∓Inf", tr)
 	}
-	if s := string(Summary(r, nil)); !strings.Contains(s, "interval [open, open]") || !strings.Contains(s, "(open above)") {
+	if s := string(Summary(r, nil)); !strings.Contains(s, `interval \[open, open\]`) || !strings.Contains(s, "(open above)") {
 		t.Errorf("README.md does not say the interval is open:\n%s", s)
 	}
 	if Num(math.Inf(1)) != "" || Num(math.Inf(-1)) != "" || Num(math.NaN()) != "" {

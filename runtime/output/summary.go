@@ -35,6 +35,13 @@ func Summary(r *result.Run, files []string) []byte {
 		}
 		b.WriteString("\n")
 	}
+	if len(r.Notes) > 0 {
+		b.WriteString("## Notes\n\n")
+		for _, n := range r.Notes {
+			fmt.Fprintf(&b, "- %s\n", n)
+		}
+		b.WriteString("\n")
+	}
 	b.WriteString("## Points\n\n|")
 	for _, p := range r.Params {
 		fmt.Fprintf(&b, " %s |", md(p))

@@ -27,6 +27,9 @@ type Run struct {
 	Theory       []string   `json:"theory"`           // theory curve names
 	Points       []Point    `json:"points"`
 	Targets      []Target   `json:"targets,omitempty"`
+	Limits       []Limit    `json:"limits,omitempty"` // theory curves no link can beat, per tap
+	Notes        []string   `json:"notes,omitempty"`  // findings the summary must show
+	Inputs       []Input    `json:"inputs,omitempty"` // files the script read (sim.ReadFile)
 	Interrupted  bool       `json:"interrupted"`
 	// Scatter is one frame's received samples at a chosen point, for the constellation plot
 	// (not part of run.json: the plot is the record).
@@ -110,6 +113,19 @@ type Target struct {
 	// Open says why an end of the interval is open: the points' limits do not close it inside
 	// the sweep on that side.
 	Open string `json:"open,omitempty"`
+}
+
+// Input is a file a script read, by its name relative to the script and its SHA-256.
+type Input struct {
+	Name   string `json:"name"`
+	SHA256 string `json:"sha256"`
+}
+
+// Limit says that a theory curve is a limit no link can beat on a tap (the normal
+// approximation on the frame error rate, say): plots draw it in that tap's panel.
+type Limit struct {
+	Tap   string `json:"tap"`
+	Curve string `json:"curve"`
 }
 
 // Scatter is what the receiver saw in one frame of one point.

@@ -130,6 +130,7 @@ func (x *experiment) execute() (*result.Run, error) {
 		run.Params = append(run.Params, p.Name)
 	}
 	run.Labels = x.labels()
+	run.Inputs = x.Inputs
 	for _, c := range x.Theory {
 		run.Theory = append(run.Theory, c.Name)
 	}
@@ -158,6 +159,7 @@ func (x *experiment) execute() (*result.Run, error) {
 	run.End = time.Now().UTC()
 	alignTaps(run)
 	x.findTargets(run)
+	x.checkLimits(run)
 	if !run.Interrupted {
 		if err := x.scatter(run, points, seed); err != nil {
 			return nil, err

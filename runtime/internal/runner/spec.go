@@ -3,6 +3,7 @@ package runner
 import (
 	"tally/blocks/link"
 	"tally/blocks/stop"
+	"tally/runtime/result"
 )
 
 // Spec is an experiment as a script declared it through package sim: what to sweep, the link
@@ -22,7 +23,11 @@ type Spec struct {
 	Seed       uint64
 	// Estimator is how every point's link estimates its BER (sim.Experiment.Estimate);
 	// AutoEstimate picks per link.
-	Estimator    link.Estimator
+	Estimator link.Estimator
+	// Limits are theory curves no link can beat on a tap (sim.Experiment.Limit); Inputs the
+	// files the script read (sim.Experiment.ReadFile), hashed into run.json.
+	Limits       []Limit
+	Inputs       []result.Input
 	AutoEstimate bool
 }
 
@@ -55,3 +60,8 @@ type Target struct {
 // sim alone can make a sim.Experiment; the host binds each script's sim.New to it, so a script
 // never sees, and cannot choose, how or where it runs.
 var NewExperiment func(name string, o *Options) any
+
+// Limit names a theory curve that no link can beat on a tap.
+type Limit struct {
+	Tap, Curve string
+}
