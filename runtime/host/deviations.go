@@ -128,6 +128,8 @@ func (d *deviations) inspect(f *ast.File) {
 		case *ast.CallExpr:
 			d.printCall(n)
 			d.variadicCall(n)
+		case *ast.FuncLit:
+			d.loopClosure(n, stack)
 		}
 		return true
 	})
@@ -792,6 +794,135 @@ func (d *deviations) variadicCall(call *ast.CallExpr) {
 			name := types.TypeString(elem, func(p *types.Package) string { return p.Name() })
 			d.refuse(a, "the interpreter cannot pass a %s straight to %s's ...%s: assign it to a variable of type %s first (var b %s = …) and pass that", n.Obj().Name(), fn.Name(), name, name, name)
 			return
+		}
+	}
+}
+
+// loopClosure gives a function literal made in a loop its own copies of the loop's variables
+// it uses (loop variables and variables declared in the body), as Go does. The interpreter
+// shares them among the iterations when the function is handed to compiled code (a theory
+// curve or a block built in a loop), even through "v := v"; a call frame of its own per
+// iteration keeps them apart, so the literal F is wrapped, on its lines, as
+//
+//	func() T { v := v; return F }()
+//
+// with T the literal's type. A captured variable that the loop changes has no such copy and
+// is refused.
+func (d *deviations) loopClosure(lit *ast.FuncLit, stack []ast.Node) {
+	var loop ast.Node    // the outermost loop around lit within its function
+	var loops []ast.Node // all of them, innermost first
+	for i := len(stack) - 1; i >= 0; i-- {
+		switch n := stack[i].(type) {
+		case *ast.FuncLit, *ast.FuncDecl:
+			i = -1
+		case *ast.ForStmt, *ast.RangeStmt:
+			loop = n
+			loops = append(loops, n)
+		case *ast.CallExpr:
+			if i == len(stack)-1 && n.Fun == lit {
+				return // called at once, in its iteration
+			}
+		}
+	}
+	if loop == nil {
+		return
+	}
+	var vars []*types.Var
+	seen := map[*types.Var]bool{}
+	ast.Inspect(lit.Body, func(n ast.Node) bool {
+		id, ok := n.(*ast.Ident)
+		if !ok {
+			return true
+		}
+		v, ok := d.info.Uses[id].(*types.Var)
+		if !ok || seen[v] || v.Pos() < loop.Pos() || v.Pos() >= loop.End() || v.Pos() >= lit.Pos() && v.Pos() < lit.End() {
+			return true
+		}
+		seen[v] = true
+		vars = append(vars, v)
+		return true
+	})
+	if len(vars) == 0 {
+		return
+	}
+	var names []string
+	for _, v := range vars {
+		if at := d.changedInLoop(v, loop, lit, loops); at != nil {
+			d.refuse(at, "the interpreter shares %s among the iterations of this loop with the function literal at line %d (Go gives each iteration its own), and the loop changes it: copy it into a new variable and use the copy", v.Name(), d.fset.Position(lit.Pos()).Line)
+			return
+		}
+		names = append(names, v.Name())
+	}
+	typ := string(d.src[d.fset.Position(lit.Type.Pos()).Offset:d.fset.Position(lit.Type.End()).Offset])
+	if strings.Contains(typ, "\n") {
+		d.refuse(lit, "the interpreter shares the loop's variables among the iterations with this function literal (Go gives each iteration its own): write its type on one line, and tally gives it copies")
+		return
+	}
+	from, to := d.fset.Position(lit.Pos()), d.fset.Position(lit.End())
+	list := strings.Join(names, ", ")
+	d.ins = append(d.ins,
+		insertion{off: from.Offset, line: from.Line, col: from.Column, text: "func() " + typ + " { " + list + " := " + list + "; return "},
+		insertion{off: to.Offset, line: to.Line, col: to.Column, text: " }()"})
+}
+
+// changedInLoop returns a statement in loop that assigns v once lit has captured it, or nil:
+// one after lit, or one before it inside an inner loop (around lit) that v is declared outside
+// of. The post statement of the three-clause loop that declares v is not one: it acts on the
+// next iteration's copy.
+func (d *deviations) changedInLoop(v *types.Var, loop ast.Node, lit *ast.FuncLit, loops []ast.Node) ast.Node {
+	var at ast.Node
+	assigns := func(s ast.Node) {
+		if s.Pos() >= lit.End() {
+			at = s
+			return
+		}
+		for _, l := range loops {
+			if l != loop && l.Pos() <= s.Pos() && s.End() <= l.End() && (v.Pos() < l.Pos() || v.Pos() >= l.End()) {
+				at = s
+				return
+			}
+		}
+	}
+	ast.Inspect(loop, func(n ast.Node) bool {
+		if at != nil {
+			return false
+		}
+		if f, ok := n.(*ast.ForStmt); ok && f.Post != nil {
+			if init, ok := f.Init.(*ast.AssignStmt); ok && init.Tok == token.DEFINE {
+				for _, e := range init.Lhs {
+					if id, ok := e.(*ast.Ident); ok && d.info.Defs[id] == v {
+						ast.Inspect(f.Body, func(b ast.Node) bool {
+							if at == nil && b != nil {
+								d.assignsTo(v, b, assigns)
+							}
+							return at == nil
+						})
+						return false
+					}
+				}
+			}
+		}
+		if n != nil {
+			d.assignsTo(v, n, assigns)
+		}
+		return at == nil
+	})
+	return at
+}
+
+// assignsTo calls found with n if n is a statement assigning v.
+func (d *deviations) assignsTo(v *types.Var, n ast.Node, found func(ast.Node)) {
+	switch s := n.(type) {
+	case *ast.AssignStmt:
+		for _, e := range s.Lhs {
+			if id, ok := ast.Unparen(e).(*ast.Ident); ok && d.info.Uses[id] == v {
+				found(s)
+				return
+			}
+		}
+	case *ast.IncDecStmt:
+		if id, ok := ast.Unparen(s.X).(*ast.Ident); ok && d.info.Uses[id] == v {
+			found(s)
 		}
 	}
 }
