@@ -88,7 +88,7 @@ func TestOpenTargetWritesOutputs(t *testing.T) {
 		t.Errorf("target 0.0135: %+v, want found, x_high null and a word why", tr)
 	}
 	readme, _ := os.ReadFile(filepath.Join(out, "README.md"))
-	if !strings.Contains(string(readme), ", open]") {
+	if !strings.Contains(string(readme), `, open\]`) {
 		t.Errorf("README.md does not show the open end:\n%s", readme)
 	}
 	code, _, stderr = run("run", "-quiet", "-resume", path)
