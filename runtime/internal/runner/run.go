@@ -153,6 +153,7 @@ func (x *experiment) execute() (*result.Run, error) {
 		}
 	}
 	run.End = time.Now().UTC()
+	run.Shards = x.long.Record()
 	alignTaps(run)
 	x.findTargets(run)
 	if !run.Interrupted {
