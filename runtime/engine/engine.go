@@ -72,7 +72,7 @@ type Shard struct {
 const Miss = 0.01
 
 // Margin is the default margin of the estimate for a point split into of shards: the standard
-// normal quantile at 1 − Miss/of (2.4 for one shard, 2.8 for 4, 3.2 for 16).
+// normal quantile at 1 − Miss/of (2.6 for 2 shards, 2.8 for 4, 3.2 for 16).
 func Margin(of int) float64 {
 	return distuv.UnitNormal.Quantile(1 - Miss/float64(max(of, 1)))
 }

@@ -350,3 +350,17 @@ func TestEstimateDispersion(t *testing.T) {
 		t.Errorf("errors of a single frame estimated %d, want 0", one.Counts[0].Errors)
 	}
 }
+
+// The default margin is the normal quantile at 1 − 0.01/N: 2.575829 for 2 shards (upper 0.5 %
+// point) and 3.090232 for 10 (upper 0.1 % point); Abramowitz & Stegun, Handbook of Mathematical
+// Functions, 1964, table 26.5.
+func TestMargin(t *testing.T) {
+	for _, c := range []struct {
+		of   int
+		want float64
+	}{{2, 2.575829}, {10, 3.090232}} {
+		if got := Margin(c.of); math.Abs(got-c.want) > 1e-6 {
+			t.Errorf("Margin(%d) = %.6f, want %.6f", c.of, got, c.want)
+		}
+	}
+}
