@@ -89,6 +89,9 @@ func mergeCmd(args []string, stdout, stderr io.Writer) int {
 	}
 	if !*quiet {
 		fmt.Fprintf(stderr, "merged %d shards into %s\n", m.Of, dir)
+		if r := set.Record; r != nil && r.Used > 0 {
+			fmt.Fprintf(stderr, "the shards computed %d bits, one machine %d: %.0f %% more (run.json: shards)\n", r.Bits, r.Used, 100*r.Overshoot)
+		}
 	}
 	return 0
 }

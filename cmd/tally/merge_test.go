@@ -2,8 +2,12 @@ package main
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
 	"errors"
 	"fmt"
+	"math"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -15,6 +19,7 @@ import (
 
 	"tally/runtime/isolate"
 	"tally/runtime/longrun"
+	"tally/runtime/result"
 )
 
 // slowScript is a binary symmetric channel on 64-bit frames that sleeps a millisecond per
@@ -297,6 +302,54 @@ func shards(t *testing.T, bin string, n int, want string) {
 	}
 	if got := table(t, filepath.Join(dir, "slow")); got != want {
 		t.Errorf("merged table of %d shards differs:\n%s\nwant\n%s", n, got, want)
+	}
+	shardRecord(t, dir, n)
+}
+
+// shardRecord checks the merged run.json's record of its shards against the shard files
+// themselves (SHA-256 from crypto/sha256, bits summed from the files) and the table's bits.
+func shardRecord(t *testing.T, dir string, n int) {
+	t.Helper()
+	b, err := os.ReadFile(filepath.Join(dir, "slow", "run.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var run result.Run
+	if err := json.Unmarshal(b, &run); err != nil {
+		t.Fatal(err)
+	}
+	r := run.Shards
+	if r == nil || r.Count != n || len(r.Files) != n {
+		t.Fatalf("run.json of a merge of %d shards records %+v", n, r)
+	}
+	host, _ := os.Hostname()
+	var bits, used int64
+	for i, f := range r.Files {
+		path := filepath.Join(dir, "slow", "shards", f.File)
+		raw, err := os.ReadFile(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		sum := sha256.Sum256(raw)
+		sf, err := longrun.LoadShard(path)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var computed int64
+		for k := range sf.Points {
+			computed += sf.Points[k].Sum()[0].Trials
+		}
+		if f.Shard != i || f.SHA256 != hex.EncodeToString(sum[:]) || f.Host != host || f.Bits != computed {
+			t.Errorf("shard %d recorded as %+v; the file has SHA-256 %x, %d bits, host %q", i, f, sum, computed, host)
+		}
+		bits += computed
+	}
+	for _, p := range run.Points {
+		used += p.Taps[0].Trials
+	}
+	want := float64(bits-used) / float64(used)
+	if r.Bits != bits || r.Used != used || math.Abs(r.Overshoot-want) > 1e-12 || bits < used {
+		t.Errorf("recorded %d bits computed, %d used, overshoot %g; the files hold %d, the table %d (%g)", r.Bits, r.Used, r.Overshoot, bits, used, want)
 	}
 }
 

@@ -14,7 +14,10 @@ import (
 	"runtime"
 	"time"
 
+	"gonum.org/v1/gonum/stat/distuv"
+
 	"tally/blocks/link"
+	"tally/blocks/stats"
 	"tally/blocks/stop"
 )
 
@@ -60,24 +63,33 @@ type Spec struct {
 type Shard struct {
 	Index, Of int     // this shard computes frames f with f % Of == Index
 	Min       int64   // frames of this shard to compute at least
-	Z         float64 // safety margin of the estimate in standard deviations (0: DefaultZ)
+	Z         float64 // margin of the estimate in standard deviations (0: Margin(Of))
 }
 
-// DefaultZ is the shard estimate's margin: three standard deviations, so that a shard rarely
-// ends before the merged prefix meets the rule (about 0.1 % of shard points, for an error
-// count near its target; common practice, no source).
-const DefaultZ = 3
+// Miss is the chance the shard estimates aim at of a point falling short in the merge: a point
+// is covered in one round when every one of its Of shards ran far enough, so each shard's
+// estimate may err high with probability Miss/Of at most (Bonferroni's bound).
+const Miss = 0.01
+
+// Margin is the default margin of the estimate for a point split into of shards: the standard
+// normal quantile at 1 − Miss/of (2.6 for 2 shards, 2.8 for 4, 3.2 for 16).
+func Margin(of int) float64 {
+	return distuv.UnitNormal.Quantile(1 - Miss/float64(max(of, 1)))
+}
 
 // Estimate is what the whole point has counted, erring low, when this shard has counted own:
 // frames and trials scaled by Of (frames have a fixed size, so trials scale exactly), errors
-// scaled by Of less Z standard deviations. The other Of−1 shards' errors are Poisson-like with
-// mean (Of−1)·e, estimated from this shard's e, so the total Of·e has variance about
-// Of·(Of−1)·e — the count's own (Of−1)·e plus the estimate's (Of−1)²·e.
+// scaled by Of less Z standard deviations. The other Of−1 shards' errors have mean (Of−1)·e,
+// estimated from this shard's e, and variance (Of−1)·e·D, where D is the index of dispersion of
+// errors between this shard's frames (stats.Dispersion, the statistic the intervals widen by;
+// 1 for independent errors, large when they come in bursts): the total Of·e has variance about
+// Of·(Of−1)·e·D — the others' count's own (Of−1)·e·D plus the estimate's (Of−1)²·e·D. Bursty
+// errors thus make a shard run further, by as much as its own frames show the bursts to be.
 func (s Shard) Estimate(own, into *stop.Progress) {
 	n := float64(s.Of)
 	z := s.Z
 	if z == 0 {
-		z = DefaultZ
+		z = Margin(s.Of)
 	}
 	into.Taps = own.Taps
 	into.Frames = own.Frames * int64(s.Of)
@@ -87,7 +99,18 @@ func (s Shard) Estimate(own, into *stop.Progress) {
 	}
 	for i, c := range own.Counts {
 		e := float64(c.Errors)
-		low := math.Floor(n*e - z*math.Sqrt(n*(n-1)*e))
+		low := e
+		if s.Of > 1 {
+			d := stats.Dispersion(c)
+			switch {
+			case math.IsNaN(d) && c.Errors > 0 && c.Errors < c.Trials:
+				// Errors in a single frame: their spread cannot be judged yet, so count none.
+				e, d = 0, 1
+			case !(d > 1): // no errors, or no bursts
+				d = 1
+			}
+			low = math.Floor(n*e - z*math.Sqrt(n*(n-1)*e*d))
+		}
 		into.Counts[i] = link.Tally{Trials: c.Trials * int64(s.Of), Errors: int64(math.Max(0, low))}
 	}
 }

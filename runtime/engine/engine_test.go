@@ -2,6 +2,7 @@ package engine
 
 import (
 	"context"
+	"math"
 	"math/rand/v2"
 	"testing"
 	"time"
@@ -10,6 +11,7 @@ import (
 
 	"tally/blocks/link"
 	"tally/blocks/rng"
+	"tally/blocks/stats"
 	"tally/blocks/stop"
 )
 
@@ -277,10 +279,11 @@ func TestEstimateOneShard(t *testing.T) {
 	}
 }
 
-// The estimate errs low about as rarely as DefaultZ promises: with Poisson error counts in
-// each of four shards (the rare-error limit of the binomial), the estimate from shard 0
-// exceeds the true total in well under 1 % of trials (one-sided normal tail at 3σ is 0.135 %;
-// Abramowitz & Stegun, Handbook of Mathematical Functions, 1964, table 26.1).
+// The estimate errs low about as rarely as Margin promises: with Poisson error counts in each
+// of four shards (the rare-error limit of the binomial), the estimate from shard 0 exceeds the
+// true total in well under 1 % of trials (the margin for 4 shards is the normal quantile at
+// 1 − 0.01/4, 2.81σ, a one-sided tail of 0.25 %; Abramowitz & Stegun, Handbook of Mathematical
+// Functions, 1964, table 26.1).
 func TestEstimateErrsLow(t *testing.T) {
 	const of, trials = 4, 20000
 	for _, mean := range []float64{5, 25, 100} {
@@ -313,3 +316,51 @@ func (onCommit) Started([]string)                    {}
 func (o onCommit) Committed(f int64, c []link.Tally) { o(f, c) }
 func (onCommit) Progress(*stop.Progress)             {}
 func (onCommit) Finished(Outcome)                    {}
+
+// Bursts widen the estimate by the index of dispersion: the same 200 errors in 100 frames give a
+// lower estimate when they fell 10 at a time in 20 frames than when spread 2 a frame, by
+// z·sqrt(n(n−1)·e·D) with D from stats.Dispersion; and errors all in one frame give no
+// estimate at all (their spread cannot be judged).
+func TestEstimateDispersion(t *testing.T) {
+	sh := Shard{Index: 0, Of: 8, Z: 3}
+	spread := link.Tally{Trials: 100 * 1000, Errors: 200, Frames: 100, Squares: 100 * 2 * 2}
+	bursty := link.Tally{Trials: 100 * 1000, Errors: 200, Frames: 100, Squares: 20 * 10 * 10}
+	var a, b stop.Progress
+	sh.Estimate(&stop.Progress{Frames: 100, Counts: []link.Tally{spread}}, &a)
+	sh.Estimate(&stop.Progress{Frames: 100, Counts: []link.Tally{bursty}}, &b)
+	for _, c := range []struct {
+		got   stop.Progress
+		tally link.Tally
+	}{{a, spread}, {b, bursty}} {
+		d := stats.Dispersion(c.tally)
+		if !(d > 1) {
+			d = 1
+		}
+		want := int64(math.Floor(8*200 - 3*math.Sqrt(8*7*200*d)))
+		if c.got.Counts[0].Errors != want {
+			t.Errorf("dispersion %.2f: estimate %d errors, want %d", d, c.got.Counts[0].Errors, want)
+		}
+	}
+	if b.Counts[0].Errors >= a.Counts[0].Errors {
+		t.Errorf("bursty errors estimated %d, spread ones %d: bursts must lower the estimate", b.Counts[0].Errors, a.Counts[0].Errors)
+	}
+	var one stop.Progress
+	sh.Estimate(&stop.Progress{Frames: 1, Counts: []link.Tally{{Trials: 1000, Errors: 40, Frames: 1, Squares: 1600}}}, &one)
+	if one.Counts[0].Errors != 0 {
+		t.Errorf("errors of a single frame estimated %d, want 0", one.Counts[0].Errors)
+	}
+}
+
+// The default margin is the normal quantile at 1 − 0.01/N: 2.575829 for 2 shards (upper 0.5 %
+// point) and 3.090232 for 10 (upper 0.1 % point); Abramowitz & Stegun, Handbook of Mathematical
+// Functions, 1964, table 26.5.
+func TestMargin(t *testing.T) {
+	for _, c := range []struct {
+		of   int
+		want float64
+	}{{2, 2.575829}, {10, 3.090232}} {
+		if got := Margin(c.of); math.Abs(got-c.want) > 1e-6 {
+			t.Errorf("Margin(%d) = %.6f, want %.6f", c.of, got, c.want)
+		}
+	}
+}

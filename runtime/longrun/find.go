@@ -22,7 +22,20 @@ func Gather(args []string) (*Merged, error) {
 			return nil, err
 		}
 	}
-	return Merge(paths, files)
+	m, err := Merge(paths, files)
+	if err != nil {
+		return nil, err
+	}
+	m.Hashes = make([]string, m.Of)
+	for i, p := range m.Paths {
+		b, err := os.ReadFile(p)
+		if err != nil {
+			return nil, err
+		}
+		sum := sha256.Sum256(b)
+		m.Hashes[i] = hex.EncodeToString(sum[:])
+	}
+	return m, nil
 }
 
 func shardFiles(args []string) ([]string, error) {

@@ -18,6 +18,7 @@ type Merged struct {
 	Seed   uint64
 	Of     int
 	Paths  []string // the files, by shard index
+	Hashes []string // hex SHA-256 of each file's bytes, by shard index (set by Gather)
 	shards []*ShardFile
 }
 

@@ -4,12 +4,14 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"path/filepath"
 	"slices"
 	"time"
 
 	"tally/blocks/link"
 	"tally/blocks/stop"
 	"tally/runtime/engine"
+	"tally/runtime/result"
 )
 
 // A Session is the long-run side of one run: it keeps a checkpoint of the committed counts in
@@ -36,6 +38,7 @@ type Session struct {
 	sh    *ShardFile  // sharding: what is saved
 	plan  *Plan       // the plan a short merge left, for -extend
 	short []ShortPoint
+	used  int64 // a merge: the bits of the BER tap its points counted
 }
 
 const (
@@ -158,7 +161,7 @@ func (s *Session) openShard() error {
 	j := s.job
 	part := *s.set.Shard
 	s.path = ShardPath(j.Dir, part)
-	s.sh = &ShardFile{Name: j.Name, Script: j.Script, SHA256: j.SHA256, Seed: j.Seed, Index: part.Index, Of: part.Of}
+	s.sh = &ShardFile{Name: j.Name, Script: j.Script, SHA256: j.SHA256, Seed: j.Seed, Index: part.Index, Of: part.Of, Host: host()}
 	if s.set.Restart {
 		if err := os.Remove(s.path); err != nil && !errors.Is(err, os.ErrNotExist) {
 			return err
@@ -186,6 +189,7 @@ func (s *Session) openShard() error {
 		return fmt.Errorf("shard: %s holds shard %d/%d, not %s", s.path, old.Index, old.Of, part)
 	}
 	s.sh = old
+	s.sh.Host = host()
 	if s.set.Extend {
 		plan, err := LoadPlan(PlanPath(j.Dir))
 		switch {
@@ -343,6 +347,9 @@ func (s *Session) replay(pt Point, spec engine.Spec, run Runner) (engine.Outcome
 		return out, err
 	}
 	out.Elapsed = time.Duration(m.Seconds(pt.Index) * float64(time.Second))
+	if i := slices.Index(out.Taps, link.TapBER); i >= 0 {
+		s.used += out.Counts[i].Trials
+	}
 	if out.Stop == engine.Short {
 		need, _ := engine.Extrapolate(spec.Rules, &stop.Progress{Frames: out.Frames, Taps: out.Taps, Counts: out.Counts})
 		s.short = append(s.short, ShortPoint{Index: pt.Index, Label: pt.Label, Covered: out.Frames, Need: need})
@@ -400,4 +407,40 @@ func (s *Session) Written(interrupted bool) error {
 		return err
 	}
 	return nil
+}
+
+// host is this machine's name, or "" when it has none.
+func host() string {
+	h, _ := os.Hostname()
+	return h
+}
+
+// Record is a merge's record of its shards (nil for other runs): the files with their hashes
+// and hosts, the bits each computed, and the overshoot over the bits the merged table counts.
+// It is also left in Settings.Record.
+func (s *Session) Record() *result.Shards {
+	if s == nil || s.mode != replaying {
+		return nil
+	}
+	m := s.set.Replay
+	r := &result.Shards{Count: m.Of, Used: s.used}
+	for i, f := range m.shards {
+		sf := result.ShardFile{Shard: i, File: filepath.Base(m.Paths[i]), Host: f.Host}
+		if i < len(m.Hashes) {
+			sf.SHA256 = m.Hashes[i]
+		}
+		for k := range f.Points {
+			p := &f.Points[k]
+			if j := slices.Index(p.Taps, link.TapBER); j >= 0 {
+				sf.Bits += p.Sum()[j].Trials
+			}
+		}
+		r.Bits += sf.Bits
+		r.Files = append(r.Files, sf)
+	}
+	if r.Used > 0 {
+		r.Overshoot = float64(r.Bits-r.Used) / float64(r.Used)
+	}
+	s.set.Record = r
+	return r
 }

@@ -1,6 +1,10 @@
 package longrun
 
-import "time"
+import (
+	"time"
+
+	"tally/runtime/result"
+)
 
 // DefaultEvery is how often a run saves its checkpoint (or shard file), in wall time.
 const DefaultEvery = 2 * time.Second
@@ -23,4 +27,6 @@ type Settings struct {
 	Replay *Merged
 	// Short is filled by a replay whose shards ran out before some point met its rules.
 	Short *ShortError
+	// Record is filled by a replay: where the merged frames came from (Session.Record).
+	Record *result.Shards
 }

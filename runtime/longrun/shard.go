@@ -123,6 +123,7 @@ type ShardFile struct {
 	Seed   uint64       `json:"seed"`
 	Index  int          `json:"shard"`
 	Of     int          `json:"shards"`
+	Host   string       `json:"host,omitempty"` // the machine that last ran it
 	Points []ShardPoint `json:"points"`
 }
 

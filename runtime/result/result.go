@@ -31,11 +31,35 @@ type Run struct {
 	Notes        []string   `json:"notes,omitempty"`  // findings the summary must show
 	Inputs       []Input    `json:"inputs,omitempty"` // files the script read (sim.ReadFile)
 	Interrupted  bool       `json:"interrupted"`
+	// Shards, for a run merged from shard files (tally merge), says where its frames came from.
+	Shards *Shards `json:"shards,omitempty"`
 	// Scatter is one frame's received samples at a chosen point, for the constellation plot
 	// (not part of run.json: the plot is the record).
 	Scatter *Scatter  `json:"-"`
 	Start   time.Time `json:"start"`
 	End     time.Time `json:"end"`
+}
+
+// Shards is the record of a run merged from the shard files of Count shards: which files,
+// where they ran, the bits each computed, and how many more bits they computed in all than
+// one machine would have for the same table (each shard runs on an estimate of the others).
+type Shards struct {
+	Count int         `json:"count"`
+	Files []ShardFile `json:"files"` // by shard index
+	Bits  int64       `json:"bits_computed"`
+	Used  int64       `json:"bits_used"` // the bits the table counts: one machine's run
+	// Overshoot is (Bits − Used) / Used: the bits computed beyond one machine's, as a multiple
+	// of one machine's (0.5: half as many again).
+	Overshoot float64 `json:"overshoot"`
+}
+
+// ShardFile is one shard file a merged run read.
+type ShardFile struct {
+	Shard  int    `json:"shard"`
+	File   string `json:"file"`           // its base name
+	SHA256 string `json:"sha256"`         // of the file's bytes
+	Host   string `json:"host,omitempty"` // the machine that last wrote it, when it said
+	Bits   int64  `json:"bits_computed"`  // bits of the BER tap it computed, over all points
 }
 
 // Point is one sweep point's outcome.

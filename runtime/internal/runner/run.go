@@ -157,6 +157,7 @@ func (x *experiment) execute() (*result.Run, error) {
 		}
 	}
 	run.End = time.Now().UTC()
+	run.Shards = x.long.Record()
 	alignTaps(run)
 	x.findTargets(run)
 	x.checkLimits(run)
