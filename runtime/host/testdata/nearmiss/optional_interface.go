@@ -38,9 +38,9 @@ func main() {
 	fmt.Println(link.NameOf(blk))
 	x := sim.New("near miss")
 	x.Sweep("ebn0_db", 2, 4)
-	x.Link(func(p sim.Point) *link.Link {
+	x.Link(func(p sim.Point) *link.Link { // a block object per link: workers share none
 		m := modem.BPSK()
-		return link.Chain(source.Random(200), m.Mod(), channel.AWGN(p.Get("ebn0_db")), m.Demod(), blk)
+		return link.Chain(source.Random(200), m.Mod(), channel.AWGN(p.Get("ebn0_db")), m.Demod(), &flip{every: 50})
 	})
 	x.Stop(stop.Errors(20), stop.Bits(2e4))
 	x.Run()
