@@ -1,5 +1,5 @@
 // Package stop holds the rules that end a sweep point. A point ends when any of its rules is
-// met. Rules are judged by the engine on the committed prefix of frames only (frames in order,
+// met; All(rules…) is one rule met when all of its rules are. Rules are judged by the engine on the committed prefix of frames only (frames in order,
 // none missing), so where a point stops never depends on the number of workers, and a replay of
 // the committed counts (resume, merge) reaches the same decision.
 //
@@ -11,6 +11,8 @@
 //	precision  Precision(r): High/Low ≤ r
 //	below      Below(t): High < t
 //	above      Above(t): Low > t
+//	frames     Frames(n): n frames committed (a minimum inside All)
+//	all(…)     All(rules…): every one of its rules met, for example "all(errors,frames)"
 //
 // Off the BER tap (.Tap("fer")) the word is prefixed with the tap: "fer_errors". Sweep rules
 // (SweepRule: Floor, Budget) decide between points whether the next one is worth running.

@@ -193,10 +193,13 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		return rp, err
 	}
 	rp = result.Point{Values: pt.Values, Frames: out.Frames, Stop: out.Stop, Seconds: out.Elapsed.Seconds()}
+	// The inverse sampling interval holds on the tap of the error count that ended the point
+	// (stop.EndedBy: an All ended by its other rules is a fixed-sample count).
+	ended := stop.EndedBy(out.Rule, &stop.Progress{Frames: out.Frames, Taps: out.Taps, Counts: out.Counts})
 	for i, name := range out.Taps {
 		var target int64
-		if et, ok := out.Rule.(*stop.ErrorTarget); ok && et.On == name {
-			target = et.Count
+		if ended != nil && ended.On == name {
+			target = ended.Count
 		}
 		c := out.Counts[i]
 		est, err := stats.ForPoint(c, x.Confidence, x.Method, target)
