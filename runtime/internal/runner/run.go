@@ -177,7 +177,7 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		}
 		l = x.Build(pt)
 		if l == nil {
-			return nil, fmt.Errorf("sim: the Link function returned nil for point %d", pt.Index+1)
+			return nil, fmt.Errorf("sim: the Link function returned nil for point %d (%s)", pt.Index, pt.text())
 		}
 		return l, nil
 	}
@@ -185,7 +185,7 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 	if where == nil {
 		where = func() string { return scriptPos(callers(5)) }
 	}
-	spec := engine.Spec{Point: pt.Index, Build: build, Rules: rules, Seed: seed, Workers: workers, Where: where}
+	spec := engine.Spec{Point: pt.Index, Label: pt.text(), Build: build, Rules: rules, Seed: seed, Workers: workers, Where: where}
 	// The long-run session adds the checkpoint, shard or replay around the engine run.
 	lp := longrun.Point{Index: pt.Index, Values: pt.Values, Label: pt.text()}
 	out, err := x.long.Run(lp, spec, func(s engine.Spec) (engine.Outcome, error) { return x.runEngine(ctx, pt, rules, s) })
