@@ -5,6 +5,7 @@ import (
 	"testing"
 
 	"tally/blocks/link"
+	"tally/blocks/rng"
 	"tally/blocks/stop"
 )
 
@@ -78,6 +79,30 @@ func TestAllRuleEverywhere(t *testing.T) {
 		}
 		if covered < stopAt {
 			t.Errorf("%+v: shards cover %d frames, the point needs %d", c, covered, stopAt)
+		}
+	}
+}
+
+// A block failing on several frames is reported at the first of them in frame order, as a
+// serial run reports it, whatever the number of workers; points and frames are numbered from
+// 0 as the script sees them (Spec.Point, link.Frame.Index).
+func TestFirstFailingFrameReported(t *testing.T) {
+	build := func() (*link.Link, error) {
+		l, _ := bscLink(0.01, true)()
+		bad := link.Func("bad", func(f *link.Frame, _ *rng.Stream) {
+			if f.Index == 5 || f.Index == 9 || f.Index > 12 {
+				var s []int
+				_ = s[f.Index]
+			}
+		})
+		return link.Chain(append(l.Blocks(), bad)...), nil
+	}
+	for _, w := range []int{1, 3, 7} {
+		_, err := Run(context.Background(), Spec{Point: 2, Label: "ebn0_db=4", Build: build,
+			Rules: []stop.Rule{stop.Bits(1e6)}, Seed: testSeed, Workers: w})
+		want := "point 2 (ebn0_db=4), frame 5: panic: runtime error: index out of range [5] with length 0"
+		if err == nil || err.Error() != want {
+			t.Errorf("workers %d: %v, want %q", w, err, want)
 		}
 	}
 }
