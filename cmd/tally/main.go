@@ -7,6 +7,7 @@
 //	tally plan               bits a tester must run to claim a BER
 //	tally interval           estimate and interval for a measured count
 //	tally merge              combine shard results
+//	tally version            the version, the Go version and the modules built in
 package main
 
 import (

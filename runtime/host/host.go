@@ -163,6 +163,9 @@ func bound(opts *runner.Options) interp.Exports {
 	return out
 }
 
+// Version is tally's version, as run.json records it (tool_version).
+const Version = runner.Version
+
 var posRE = regexp.MustCompile(`^(?:(.*?):)?(\d+):(\d+): (.*)$`)
 
 // translate turns an interpreter error into a ScriptError at the script's position: a compile
