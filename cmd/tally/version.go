@@ -1,6 +1,8 @@
 package main
 
 import (
+	"errors"
+	"flag"
 	"fmt"
 	"io"
 	"runtime"
@@ -18,8 +20,19 @@ func init() {
 // the commit when the build knows it, and each module built in with its version and sum, so a
 // result can be traced to the exact build that made it.
 func versionCmd(args []string, stdout, stderr io.Writer) int {
-	if len(args) > 0 {
-		fmt.Fprintf(stderr, "usage: tally version (takes no arguments; got %q)\n", args[0])
+	fs := flag.NewFlagSet("tally version", flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	fs.Usage = func() {
+		fmt.Fprintf(stderr, "usage: tally version\n\nPrints tally's version (as run.json records it), the Go version, the commit when\nthe build knows it, and every module built in with its version and sum.\n")
+	}
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			return 0
+		}
+		return 2
+	}
+	if fs.NArg() > 0 {
+		fmt.Fprintf(stderr, "tally version: takes no arguments, got %q\n", fs.Arg(0))
 		return 2
 	}
 	fmt.Fprintf(stdout, "tally %s\n", host.Version)
