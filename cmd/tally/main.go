@@ -14,6 +14,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"strings"
 )
 
 type command struct {
@@ -55,4 +56,10 @@ func dispatch(args []string, stdout, stderr io.Writer) int {
 	fmt.Fprintf(stderr, "tally: unknown command %q\n\n", args[0])
 	usage(stderr)
 	return 2
+}
+
+// complain prints "tally NAME: message" for err, without a second "NAME: " when the package
+// that made err already named itself so ("tally merge: merge: no shard files").
+func complain(w io.Writer, name string, err error) {
+	fmt.Fprintf(w, "tally %s: %s\n", name, strings.TrimPrefix(err.Error(), name+": "))
 }
