@@ -34,7 +34,7 @@ func (x *experiment) findTargets(run *result.Run) {
 			tr := result.Target{Tap: t.Tap, Rate: t.Rate, Curve: c.label, Against: t.Against}
 			cr, err := stats.AtTarget(xs, est, t.Rate)
 			if err != nil {
-				tr.Note = err.Error()
+				tr.Note = note(err)
 			} else {
 				tr.Found, tr.X, tr.Low, tr.High = true, cr.X, cr.Low, cr.High
 				tr.Open = openEnds(cr.Low, cr.High)
@@ -56,7 +56,7 @@ func (x *experiment) findTargets(run *result.Run) {
 							return fn(Point{Names: run.Params, Values: vals, Labels: x.labels()})
 						})
 						if err != nil {
-							tr.Note = err.Error()
+							tr.Note = note(err)
 						} else {
 							tr.Penalty, tr.TheoryX = loss.DB, loss.Theory
 						}
