@@ -133,6 +133,7 @@ func BER(r *result.Run) (*Figure, error) {
 	// they do not stretch the axis: at most two decades below the lowest measured figure.
 	var theoryY []float64
 	for k, name := range r.Theory {
+		var key lineKey // the theory's key: its dashes in the colour of each curve it is drawn for
 		for ci, c := range cs {
 			cl := theoryColour(ci, many)
 			s := &series{}
@@ -147,10 +148,9 @@ func BER(r *result.Run) (*Figure, error) {
 			}
 			s.line = draw.LineStyle{Color: cl, Width: vg.Points(1), Dashes: theoryDashes[k%len(theoryDashes)]}
 			left.Add(s)
-			if ci == 0 {
-				legend.Add("theory: "+name, &series{line: draw.LineStyle{Color: theoryCl, Width: s.line.Width, Dashes: s.line.Dashes}})
-			}
+			key.styles = append(key.styles, s.line)
 		}
+		legend.Add("theory: "+name, key)
 	}
 	if many {
 		if pre >= 0 {
