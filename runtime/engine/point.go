@@ -2,6 +2,7 @@ package engine
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"sync"
 	"time"
@@ -184,7 +185,8 @@ func (r *pointRun) parallel(ctx context.Context, first, second *link.Link, worke
 	}
 
 	pending := map[int64]done{}
-	var runErr error
+	var runErr, failErr error
+	var failed int64
 loop:
 	for {
 		select {
@@ -203,6 +205,7 @@ loop:
 				}
 				delete(pending, want)
 				if d.err != nil {
+					failed, failErr = want, d.err
 					runErr = fmt.Errorf("%s, frame %d: %w", r.s.name(), want, d.err)
 					break loop
 				}
@@ -219,6 +222,17 @@ loop:
 	close(jobs)
 	go func() { wg.Wait(); close(results) }()
 	for range results {
+	}
+	var pe *PanicError
+	if errors.As(failErr, &pe) && r.s.Where != nil {
+		// While the frame failed, other workers went on through the script and may have moved
+		// the position Where reads: run the frame once more, alone (its streams are keyed by
+		// the frame, so it fails again the same way), for the position of this failure.
+		var f link.Frame
+		var again *PanicError
+		if err := runFrame(links[0], &f, r.s, int(failed), make([]link.Tally, len(r.taps))); errors.As(err, &again) {
+			pe.Where = again.Where
+		}
 	}
 	return runErr
 }

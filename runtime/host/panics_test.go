@@ -86,3 +86,22 @@ func TestGoMessage(t *testing.T) {
 		_ = s[len(s)+3]
 	}()
 }
+
+// With several workers the others go on through the script while one frame fails; the line
+// reported is still the failing statement's (the engine runs the failed frame once more,
+// alone, for its position).
+func TestBlockPanicLineWithWorkers(t *testing.T) {
+	p := scriptIn(t, "custom.go")
+	good, _ := os.ReadFile(p)
+	os.WriteFile(p, []byte(strings.Replace(string(good), "f.Hard = hard", `panic("the slicer gave up")`, 1)), 0o644)
+	for range 5 {
+		err := Run(context.Background(), p, quiet(4))
+		var se *ScriptError
+		if !errors.As(err, &se) {
+			t.Fatalf("want a ScriptError, got %v", err)
+		}
+		if want := p + ":40:4"; se.Pos != want || se.Msg != "point 0 (ebn0_db=0), frame 0: panic: the slicer gave up" {
+			t.Errorf("%s: %s; want %s: point 0 (ebn0_db=0), frame 0: panic: the slicer gave up", se.Pos, se.Msg, want)
+		}
+	}
+}
