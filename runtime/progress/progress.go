@@ -135,6 +135,10 @@ func goals(rules []stop.Rule) (errs, bits int64) {
 			if bits == 0 || r.Max < bits {
 				bits = r.Max
 			}
+		case *stop.AllOf: // its error count is a goal the point must reach
+			if e, _ := goals(r.Rules); e > 0 && (errs == 0 || e < errs) {
+				errs = e
+			}
 		}
 	}
 	return errs, bits
