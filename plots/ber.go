@@ -140,6 +140,7 @@ func BER(r *result.Run) (*Figure, error) {
 		if frames && limitOn(r, name) == link.TapFER {
 			panel, ty = right, &theoryFY // a limit on the frame error rate goes beside the FER
 		}
+		var key lineKey // the theory's key: its dashes in the colour of each curve it is drawn for
 		for ci, c := range cs {
 			cl := theoryColour(ci, many)
 			s := &series{}
@@ -154,10 +155,9 @@ func BER(r *result.Run) (*Figure, error) {
 			}
 			s.line = draw.LineStyle{Color: cl, Width: vg.Points(1), Dashes: theoryDashes[k%len(theoryDashes)]}
 			panel.Add(s)
-			if ci == 0 {
-				legend.Add("theory: "+name, &series{line: draw.LineStyle{Color: theoryCl, Width: s.line.Width, Dashes: s.line.Dashes}})
-			}
+			key.styles = append(key.styles, s.line)
 		}
+		legend.Add("theory: "+name, key)
 	}
 	if many {
 		if pre >= 0 {

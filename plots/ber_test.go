@@ -277,3 +277,38 @@ func TestDecadeTicks(t *testing.T) {
 		t.Errorf("decadeParts(-5) = %q, %q: want a true minus sign", b, x)
 	}
 }
+
+// A theory curve drawn once per curve in that curve's colour has a legend key in the same
+// colours (one segment per curve), not a grey line the plot never draws; a single curve keeps
+// the neutral colour for both.
+func TestTheoryKeyMatchesItsLines(t *testing.T) {
+	for _, grid := range []bool{false, true} {
+		f, err := BER(sampleRun(grid, false))
+		if err != nil {
+			t.Fatal(err)
+		}
+		var key lineKey
+		found := false
+		for i, n := range f.Legend.names {
+			if n == "theory: bpsk" {
+				key, found = f.Legend.thumbs[i].(lineKey)
+			}
+		}
+		if !found {
+			t.Fatalf("grid=%v: no lineKey for theory: bpsk in %q", grid, f.Legend.names)
+		}
+		// The lines are drawn in theoryColour(ci, many): the key must show the same colours.
+		want := []color.Color{theoryCl}
+		if grid {
+			want = []color.Color{colour(0), colour(1), colour(2)}
+		}
+		if len(key.styles) != len(want) {
+			t.Fatalf("grid=%v: key of %d colours, %d lines drawn", grid, len(key.styles), len(want))
+		}
+		for i, s := range key.styles {
+			if s.Color != want[i] || s.Color != theoryColour(i, grid) {
+				t.Errorf("grid=%v: key colour %d is %v, the line's %v", grid, i, s.Color, want[i])
+			}
+		}
+	}
+}

@@ -26,6 +26,13 @@ package link
 import "tally/blocks/rng"
 
 // Frame is one frame of a link: the buffers of every stage plus what blocks tell each other.
+//
+// What a custom block sees depends on where it sits. Every field starts each frame at its
+// zero value (SPS, CodeRate and Es at 1) and is filled by the blocks before it. On a link with
+// no decoder Out stays nil and Coded is the same slice as Bits: the link then counts Hard
+// against Bits for the BER tap, so a block after the demodulator that changes the decisions
+// changes Hard (setting Out makes the link count Out instead). After a decoder Out holds the
+// decoded bits and Hard the coded decisions, which the pre-decoder tap counts against Coded.
 type Frame struct {
 	Point int // sweep point index
 	Index int // frame index within the point
@@ -51,7 +58,7 @@ type Frame struct {
 
 	LLR  []float64 // soft outputs, log(P(b=0)/P(b=1)) per coded bit
 	Hard []byte    // hard decisions per coded bit
-	Out  []byte    // decoded information bits; the link counts Out against Bits
+	Out  []byte    // decoded information bits; the link counts Out against Bits, or Hard when Out is nil (no decoder)
 
 	Constellation []complex128 // the modulator's points, indexed by symbol label, for receivers
 

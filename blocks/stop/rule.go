@@ -1,5 +1,5 @@
 // Package stop holds the rules that end a sweep point. A point ends when any of its rules is
-// met. Rules are judged by the engine on the committed prefix of frames only (frames in order,
+// met; All(rules…) is one rule met when all of its rules are. Rules are judged by the engine on the committed prefix of frames only (frames in order,
 // none missing), so where a point stops never depends on the number of workers, and a replay of
 // the committed counts (resume, merge) reaches the same decision.
 //
@@ -14,6 +14,8 @@
 //	           probability at most 1 − confidence, judged after every frame, with errors
 //	           clustered in any way within frames
 //	above      Above(t): the rate is shown above t, by the same test the other way
+//	frames     Frames(n): n frames committed (a minimum inside All)
+//	all(…)     All(rules…): every one of its rules met, for example "all(errors,frames)"
 //
 // Only below and above are claims. The interval the table gives a point is valid for the
 // rule that ended it (see stats.ForFrames), whichever that was.

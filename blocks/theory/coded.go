@@ -174,7 +174,20 @@ func (s Spectrum) Event(ebn0DB float64) float64 {
 //
 // The sum runs over the listed terms; it is tight at low error rates (above about 4 dB for the
 // K = 7 code) and loose, even above 1, at low Eb/N0.
-func (s Spectrum) Soft(ebn0DB float64) float64 { return s.union(s.B, ebn0DB) }
+//
+// Where the sum exceeds 1/2 the result is NaN (an empty cell in table.csv, a gap in the plot),
+// and so for Hard: a decoder that guesses every bit has BER 1/2, so a bound above 1/2 carries
+// no information, and clipping it to 0.5 would draw a flat line that reads as a prediction
+// (common practice, no source).
+func (s Spectrum) Soft(ebn0DB float64) float64 { return informative(s.union(s.B, ebn0DB)) }
+
+// informative is a BER bound, or NaN where it exceeds 1/2 and says nothing.
+func informative(pb float64) float64 {
+	if pb > 0.5 {
+		return math.NaN()
+	}
+	return pb
+}
 
 func (s Spectrum) union(w []float64, ebn0DB float64) float64 {
 	g := FromDB(ebn0DB)
@@ -195,6 +208,7 @@ func (s Spectrum) union(w []float64, ebn0DB float64) float64 {
 // symmetric channel of crossover p = Q(√(2Rγb)) (Proakis, §8.2-3): for odd d,
 // P_d = Σ_{k=(d+1)/2}^{d} C(d, k) p^k (1−p)^(d−k); for even d, ties count half,
 // P_d = ½ C(d, d/2) p^(d/2) (1−p)^(d/2) + Σ_{k=d/2+1}^{d} C(d, k) p^k (1−p)^(d−k).
+// NaN where the sum exceeds 1/2, as for Soft.
 func (s Spectrum) Hard(ebn0DB float64) float64 {
 	if math.IsNaN(ebn0DB) || s.Rate <= 0 {
 		return math.NaN()
@@ -215,7 +229,7 @@ func (s Spectrum) Hard(ebn0DB float64) float64 {
 		}
 		pb += b * pd
 	}
-	return pb
+	return informative(pb)
 }
 
 // ConvK7Soft is ConvK7.Soft, the soft-decision union bound of the K = 7, 133/171 code.

@@ -129,3 +129,27 @@ func TestConvK7BoundsOrder(t *testing.T) {
 		}
 	}
 }
+
+// A union bound above 1/2 says nothing a guessing decoder (BER 1/2) does not, so Soft and Hard
+// leave it out (NaN) rather than report it or a clipped 0.5; where the sum is below 1/2 it is
+// returned as summed (common practice, no source). At 1 dB the K = 7 soft sum is far above 1
+// and at 5 dB well below 1e-4 (Proakis, Digital Communications, 4th ed., 2001, Fig. 8.2-16;
+// from memory).
+func TestUnionBoundAboveHalfLeftOut(t *testing.T) {
+	for _, c := range []struct {
+		name string
+		f    func(float64) float64
+	}{{"soft", theory.ConvK7Soft}, {"hard", theory.ConvK7Hard}} {
+		if v := c.f(1); !math.IsNaN(v) {
+			t.Errorf("%s at 1 dB: %v, want NaN (the sum exceeds 1/2)", c.name, v)
+		}
+		for db := 0.0; db <= 10; db += 0.25 {
+			if v := c.f(db); !math.IsNaN(v) && !(v > 0 && v <= 0.5) {
+				t.Errorf("%s at %v dB: %v, want NaN or a rate in (0, 1/2]", c.name, db, v)
+			}
+		}
+	}
+	if v := theory.ConvK7Soft(5); !(v > 0 && v < 1e-4) {
+		t.Errorf("soft at 5 dB: %v, want below 1e-4", v)
+	}
+}

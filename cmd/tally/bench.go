@@ -41,7 +41,7 @@ func benchCmd(args []string, stdout, stderr io.Writer) int {
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stop()
 	if err := bench.Report(ctx, o, stdout); err != nil {
-		fmt.Fprintln(stderr, "tally:", err)
+		complain(stderr, "bench", err)
 		return 1
 	}
 	return 0

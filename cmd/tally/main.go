@@ -7,12 +7,14 @@
 //	tally plan               bits a tester must run to claim a BER
 //	tally interval           estimate and interval for a measured count
 //	tally merge              combine shard results
+//	tally version            the version, the Go version and the modules built in
 package main
 
 import (
 	"fmt"
 	"io"
 	"os"
+	"strings"
 
 	"tally/runtime/isolate"
 )
@@ -62,4 +64,10 @@ func dispatch(args []string, stdout, stderr io.Writer) int {
 	fmt.Fprintf(stderr, "tally: unknown command %q\n\n", args[0])
 	usage(stderr)
 	return 2
+}
+
+// complain prints "tally NAME: message" for err, without a second "NAME: " when the package
+// that made err already named itself so ("tally merge: merge: no shard files").
+func complain(w io.Writer, name string, err error) {
+	fmt.Fprintf(w, "tally %s: %s\n", name, strings.TrimPrefix(err.Error(), name+": "))
 }

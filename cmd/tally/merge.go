@@ -50,12 +50,12 @@ func mergeCmd(args []string, stdout, stderr io.Writer) int {
 	}
 	m, err := longrun.Gather(fs.Args())
 	if err != nil {
-		fmt.Fprintln(stderr, "tally merge:", err)
+		complain(stderr, "merge", err)
 		return 1
 	}
 	path, err := longrun.FindScript(*script, m)
 	if err != nil {
-		fmt.Fprintln(stderr, "tally merge:", err)
+		complain(stderr, "merge", err)
 		return 1
 	}
 	set := &longrun.Settings{Replay: m}
@@ -71,10 +71,10 @@ func mergeCmd(args []string, stdout, stderr io.Writer) int {
 	err = host.Run(ctx, path, cfg)
 	dir := output.Dir(path)
 	if set.Short != nil {
-		fmt.Fprintln(stderr, "tally merge:", set.Short)
+		complain(stderr, "merge", set.Short)
 		pp, err := longrun.SavePlan(dir, m, set.Short)
 		if err != nil {
-			fmt.Fprintln(stderr, "tally merge:", err)
+			complain(stderr, "merge", err)
 			return 1
 		}
 		fmt.Fprintf(stderr, "nothing written. Run every shard again with -extend (it reads %s):\n"+
@@ -85,7 +85,7 @@ func mergeCmd(args []string, stdout, stderr io.Writer) int {
 		return exitCode(err, stderr)
 	}
 	if err := longrun.RemovePlan(dir); err != nil {
-		fmt.Fprintln(stderr, "tally merge:", err)
+		complain(stderr, "merge", err)
 	}
 	if !*quiet {
 		fmt.Fprintf(stderr, "merged %d shards into %s\n", m.Of, dir)

@@ -9,10 +9,15 @@ import (
 	"os"
 	"os/signal"
 	"runtime"
+	"path/filepath"
+	"time"
 
 	"tally/runtime/host"
 	"tally/runtime/isolate"
 	"tally/runtime/longrun"
+	"tally/runtime/output"
+	"tally/runtime/progress"
+	"tally/runtime/result"
 	"tally/runtime/sim"
 )
 
@@ -90,12 +95,36 @@ func runCmd(args []string, stdout, stderr io.Writer) int {
 	}
 	ctx, stopSignals := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stopSignals()
-	return exitCode(isolate.Run(ctx, f.fs.Arg(0), f.isolated(stderr)), stderr)
+	cfg := f.isolated(stderr)
+	var run *result.Run
+	done := cfg.Host.Done
+	cfg.Host.Done = func(r *result.Run) error {
+		run = r
+		if done != nil {
+			return done(r)
+		}
+		return nil
+	}
+	start := time.Now()
+	err := isolate.Run(ctx, f.fs.Arg(0), cfg)
+	if err == nil && run != nil && !f.quiet && (f.long == nil || f.long.Shard == nil) {
+		ending(stderr, f.fs.Arg(0), run, time.Since(start))
+	}
+	return exitCode(err, stderr)
 }
 
 // isolated is how a run's child process is made.
 func (f *runFlags) isolated(stderr io.Writer) isolate.Config {
 	return isolate.Config{Host: f.config(stderr), Memory: f.memory.Bytes}
+}
+
+// ending is the last word of a run: where the outputs went, and the crossings at the targets
+// as README.md gives them.
+func ending(w io.Writer, script string, r *result.Run, took time.Duration) {
+	fmt.Fprintf(w, "%s: %d points in %s → %s%c\n", script, len(r.Points), progress.Duration(took), output.Dir(script), filepath.Separator)
+	for _, l := range output.Crossings(r) {
+		fmt.Fprintf(w, "  %s\n", l)
+	}
 }
 
 // exitCode reports a run's error and gives the exit code: 1 for a script or run error, 130 for

@@ -10,6 +10,7 @@ package engine
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"runtime"
 	"time"
@@ -23,7 +24,8 @@ import (
 
 // Spec is one point's work.
 type Spec struct {
-	Point   int                        // point index (keys the streams)
+	Point   int                        // point index (keys the streams), from 0 like sim.Point.Index
+	Label   string                     // the point's values for messages ("ebn0_db=4"), if any
 	Build   func() (*link.Link, error) // makes the link; called once per worker
 	Rules   []stop.Rule                // the point ends when any is met
 	Seed    uint64
@@ -50,6 +52,15 @@ type Spec struct {
 	// Where, if set, is called when a block panics, from the panicking goroutine, to name the
 	// script position reached (the host's marker, or the compiled stack).
 	Where func() string
+}
+
+// name is how messages name the point: "point 2 (ebn0_db=4)". Points and frames are numbered
+// from 0, as a script sees them (sim.Point.Index, link.Frame.Index).
+func (s Spec) name() string {
+	if s.Label == "" {
+		return fmt.Sprintf("point %d", s.Point)
+	}
+	return fmt.Sprintf("point %d (%s)", s.Point, s.Label)
 }
 
 // Shard is a deterministic share of a point's frames: frame f belongs to shard f mod Of.

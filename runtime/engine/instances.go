@@ -54,7 +54,7 @@ func checkInstances(s Spec, first, second *link.Link) error {
 		return err
 	}
 	if len(a.Blocks()) != len(first.Blocks()) || len(b.Blocks()) != len(first.Blocks()) || len(a.Taps()) != len(first.Taps()) {
-		return fmt.Errorf("the Link function built links of different lengths for point %d: it must build the same link every time", s.Point+1)
+		return fmt.Errorf("the Link function built links of different lengths for %s: it must build the same link every time", s.name())
 	}
 	c := checker{s: s, a: a, b: b, taps: len(first.Taps())}
 	return c.run()
@@ -239,7 +239,7 @@ func (c *checker) refuse(k int, what string) error {
 	case len(names) > 1:
 		who, advice = "one of the custom blocks "+strings.Join(names, ", "), custAdvice
 	}
-	return fmt.Errorf("point %d: %s %s, so the table would depend on the number of workers. %s", c.s.Point+1, who, what, advice)
+	return fmt.Errorf("%s: %s %s, so the table would depend on the number of workers. %s", c.s.name(), who, what, advice)
 }
 
 // alone computes frame index on l by itself.

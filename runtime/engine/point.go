@@ -2,6 +2,7 @@ package engine
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"sync"
 	"time"
@@ -31,7 +32,7 @@ func newPointRun(s Spec, taps []string) (*pointRun, error) {
 	r.prog = &stop.Progress{Taps: taps, Counts: make([]link.Tally, len(taps))}
 	if s.Start != nil {
 		if len(s.Start.Counts) != len(taps) {
-			return nil, fmt.Errorf("point %d: the saved state has %d taps, the link %d", s.Point+1, len(s.Start.Counts), len(taps))
+			return nil, fmt.Errorf("%s: the saved state has %d taps, the link %d", s.name(), len(s.Start.Counts), len(taps))
 		}
 		r.prog.Frames = s.Start.Frames
 		copy(r.prog.Counts, s.Start.Counts)
@@ -125,7 +126,7 @@ func (r *pointRun) serial(ctx context.Context, l *link.Link) error {
 		idx := r.frameOf(r.prog.Frames)
 		clear(c)
 		if err := runFrame(l, &f, r.s, int(idx), c); err != nil {
-			return fmt.Errorf("point %d, frame %d: %w", r.s.Point+1, idx, err)
+			return fmt.Errorf("%s, frame %d: %w", r.s.name(), idx, err)
 		}
 		if r.commit(idx, c, true) {
 			return nil
@@ -184,7 +185,8 @@ func (r *pointRun) parallel(ctx context.Context, first, second *link.Link, worke
 	}
 
 	pending := map[int64]done{}
-	var runErr error
+	var runErr, failErr error
+	var failed int64
 loop:
 	for {
 		select {
@@ -192,10 +194,8 @@ loop:
 			r.interrupted()
 			break loop
 		case d := <-results:
-			if d.err != nil {
-				runErr = fmt.Errorf("point %d, frame %d: %w", r.s.Point+1, d.index, d.err)
-				break loop
-			}
+			// An error is reported when its frame's turn to commit comes, as a serial run
+			// would: the first failing frame in order, whatever the number of workers.
 			pending[d.index] = d
 			for {
 				want := r.frameOf(r.prog.Frames)
@@ -204,6 +204,11 @@ loop:
 					break
 				}
 				delete(pending, want)
+				if d.err != nil {
+					failed, failErr = want, d.err
+					runErr = fmt.Errorf("%s, frame %d: %w", r.s.name(), want, d.err)
+					break loop
+				}
 				if r.commit(want, d.counts, true) {
 					break loop
 				}
@@ -217,6 +222,17 @@ loop:
 	close(jobs)
 	go func() { wg.Wait(); close(results) }()
 	for range results {
+	}
+	var pe *PanicError
+	if errors.As(failErr, &pe) && r.s.Where != nil {
+		// While the frame failed, other workers went on through the script and may have moved
+		// the position Where reads: run the frame once more, alone (its streams are keyed by
+		// the frame, so it fails again the same way), for the position of this failure.
+		var f link.Frame
+		var again *PanicError
+		if err := runFrame(links[0], &f, r.s, int(failed), make([]link.Tally, len(r.taps))); errors.As(err, &again) {
+			pe.Where = again.Where
+		}
 	}
 	return runErr
 }
@@ -235,7 +251,7 @@ func (r *pointRun) replay(ctx context.Context) error {
 			return nil
 		}
 		if len(c) != len(r.prog.Counts) {
-			return fmt.Errorf("point %d, frame %d: %d taps saved, the link has %d", r.s.Point+1, f, len(c), len(r.prog.Counts))
+			return fmt.Errorf("%s, frame %d: %d taps saved, the link has %d", r.s.name(), f, len(c), len(r.prog.Counts))
 		}
 		if r.commit(f, c, false) {
 			return nil

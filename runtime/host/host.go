@@ -179,6 +179,9 @@ func bound(opts *runner.Options) interp.Exports {
 	return out
 }
 
+// Version is tally's version, as run.json records it (tool_version).
+const Version = runner.Version
+
 var posRE = regexp.MustCompile(`^(?:(.*?):)?(\d+):(\d+): (.*)$`)
 
 // translate turns an interpreter error into a ScriptError at the script's position: a compile
@@ -192,13 +195,15 @@ func translate(path string, err error, mk *marks) error {
 		}
 		var f *runner.Failure
 		if e, ok := pn.Value.(error); ok && errors.As(e, &f) && f.Pos != "" {
-			return &ScriptError{Pos: f.Pos, Msg: f.Err.Error()}
+			msg, line, col := inGoWords(f.Err)
+			return &ScriptError{Pos: scriptPosAt(f.Pos, line, col), Msg: msg}
 		}
 		pos := path
 		if mk != nil && mk.where() != "" {
 			pos = mk.where()
 		}
-		return &ScriptError{Pos: pos, Msg: fmt.Sprint(pn.Value)}
+		msg, line, col := goMessage(pn.Value)
+		return &ScriptError{Pos: scriptPosAt(pos, line, col), Msg: msg}
 	}
 	var list scanner.ErrorList
 	if errors.As(err, &list) && len(list) > 0 {

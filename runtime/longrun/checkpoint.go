@@ -48,10 +48,10 @@ func LoadCheckpoint(path string) (*Checkpoint, error) {
 	for i, p := range c.Points {
 		if p.Index < 0 || i > 0 && p.Index <= c.Points[i-1].Index || p.Frames < 0 || len(p.Counts) != len(p.Taps) ||
 			len(p.Weights) != 0 && len(p.Weights) != len(p.Taps) {
-			return nil, fmt.Errorf("%s: point %d is inconsistent", path, p.Index+1)
+			return nil, fmt.Errorf("%s: point %d is inconsistent", path, p.Index)
 		}
 		if p.Stop == "" && i != len(c.Points)-1 {
-			return nil, fmt.Errorf("%s: point %d is unfinished but not the last", path, p.Index+1)
+			return nil, fmt.Errorf("%s: point %d is unfinished but not the last", path, p.Index)
 		}
 	}
 	return &c, nil

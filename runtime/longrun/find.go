@@ -3,7 +3,9 @@ package longrun
 import (
 	"crypto/sha256"
 	"encoding/hex"
+	"errors"
 	"fmt"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"sort"
@@ -42,8 +44,11 @@ func shardFiles(args []string) ([]string, error) {
 	var out []string
 	for _, a := range args {
 		st, err := os.Stat(a)
+		if errors.Is(err, fs.ErrNotExist) {
+			return nil, fmt.Errorf("%s: no such shard file or folder", a)
+		}
 		if err != nil {
-			return nil, err
+			return nil, fmt.Errorf("cannot read %s", a)
 		}
 		if !st.IsDir() {
 			out = append(out, a)

@@ -55,7 +55,7 @@ func Merge(paths []string, files []*ShardFile) (*Merged, error) {
 			if t, ok := taps[sp.Index]; !ok {
 				taps[sp.Index] = sp.Taps
 			} else if !slices.Equal(t, sp.Taps) {
-				return nil, fmt.Errorf("%s: point %d counts taps %v, other shards %v", p, sp.Index+1, sp.Taps, t)
+				return nil, fmt.Errorf("%s: point %d counts taps %v, other shards %v", p, sp.Index, sp.Taps, t)
 			}
 		}
 	}

@@ -68,7 +68,7 @@ func (e *ShortError) Error() string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "the shards do not cover enough frames for %d point(s):", len(e.Points))
 	for _, p := range e.Points {
-		fmt.Fprintf(&b, "\n  point %d (%s): %d frames in order, the rules not met", p.Index+1, p.Label, p.Covered)
+		fmt.Fprintf(&b, "\n  point %d (%s): %d frames in order, the rules not met", p.Index, p.Label, p.Covered)
 		if p.Need > 0 {
 			more := MinFrames(p.Need, Part{Index: 0, Of: e.Of}) - MinFrames(p.Covered, Part{Index: 0, Of: e.Of})
 			fmt.Fprintf(&b, "; about %d frames needed (%d more per shard)", p.Need, max(more, 1))

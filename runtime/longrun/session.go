@@ -136,7 +136,7 @@ func (s *Session) openCheckpoint() error {
 		if p.Stop != "" {
 			done++
 		} else {
-			at = fmt.Sprintf(", point %d from frame %d", p.Index+1, p.Frames)
+			at = fmt.Sprintf(", point %d from frame %d", p.Index, p.Frames)
 		}
 	}
 	j.Logf("resume: %d finished point(s)%s, from %s\n", done, at, s.path)
@@ -258,7 +258,7 @@ func (s *Session) checkpoint(pt Point, spec engine.Spec, run Runner) (engine.Out
 	if s.old != nil {
 		if ps := s.old.Point(pt.Index); ps != nil {
 			if !slices.Equal(ps.Values, pt.Values) {
-				return engine.Outcome{}, fmt.Errorf("resume: point %d of %s has values %v, the sweep %v; run with -restart", pt.Index+1, s.path, ps.Values, pt.Values)
+				return engine.Outcome{}, fmt.Errorf("resume: point %d of %s has values %v, the sweep %v; run with -restart", pt.Index, s.path, ps.Values, pt.Values)
 			}
 			c.before = time.Duration(ps.Seconds * float64(time.Second))
 			c.counts = ps.Tallies()
@@ -311,7 +311,7 @@ func (s *Session) shard(pt Point, spec engine.Spec, run Runner) (engine.Outcome,
 		sp = s.sh.Point(pt.Index)
 	}
 	if !slices.Equal(sp.Values, pt.Values) {
-		return engine.Outcome{}, fmt.Errorf("shard: point %d of %s has values %v, the sweep %v; run with -restart", pt.Index+1, s.path, sp.Values, pt.Values)
+		return engine.Outcome{}, fmt.Errorf("shard: point %d of %s has values %v, the sweep %v; run with -restart", pt.Index, s.path, sp.Values, pt.Values)
 	}
 	before := time.Duration(sp.Seconds * float64(time.Second))
 	if sp.Frames > 0 {
@@ -328,7 +328,7 @@ func (s *Session) shard(pt Point, spec engine.Spec, run Runner) (engine.Outcome,
 		return out, err
 	}
 	if out.Frames != sp.Frames {
-		return out, fmt.Errorf("shard: point %d: %d frames committed, %d saved", pt.Index+1, out.Frames, sp.Frames)
+		return out, fmt.Errorf("shard: point %d: %d frames committed, %d saved", pt.Index, out.Frames, sp.Frames)
 	}
 	sp.Done, sp.Stop, sp.Seconds = out.Stop != engine.Interrupted, out.Stop, out.Elapsed.Seconds()
 	s.save(KindShard, s.sh)
@@ -338,7 +338,7 @@ func (s *Session) shard(pt Point, spec engine.Spec, run Runner) (engine.Outcome,
 func (s *Session) replay(pt Point, spec engine.Spec, run Runner) (engine.Outcome, error) {
 	m := s.set.Replay
 	if v := m.Values(pt.Index); v != nil && !slices.Equal(v, pt.Values) {
-		return engine.Outcome{}, fmt.Errorf("merge: the shards' point %d has values %v, the sweep %v", pt.Index+1, v, pt.Values)
+		return engine.Outcome{}, fmt.Errorf("merge: the shards' point %d has values %v, the sweep %v", pt.Index, v, pt.Values)
 	}
 	spec.Replay = func(f int64) ([]link.Tally, bool) { return m.Frame(pt.Index, f) }
 	spec.Workers = 1

@@ -261,12 +261,12 @@ func (p *ShardPoint) check() error {
 	var n int64
 	for _, r := range p.Runs {
 		if len(r) != 1+2*taps || r[0] < 1 {
-			return fmt.Errorf("point %d: a run of frame counts does not fit %d taps", p.Index+1, taps)
+			return fmt.Errorf("point %d: a run of frame counts does not fit %d taps", p.Index, taps)
 		}
 		n += r[0]
 	}
 	if n != p.Frames {
-		return fmt.Errorf("point %d: runs hold %d frames, the point says %d", p.Index+1, n, p.Frames)
+		return fmt.Errorf("point %d: runs hold %d frames, the point says %d", p.Index, n, p.Frames)
 	}
 	if len(p.Weights) != 0 && int64(len(p.Weights)) != p.Frames {
 		return fmt.Errorf("point %d: weights for %d frames, the point has %d", p.Index+1, len(p.Weights), p.Frames)

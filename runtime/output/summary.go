@@ -60,8 +60,12 @@ func Summary(r *result.Run, files []string) []byte {
 		for i := range r.Params {
 			fmt.Fprintf(&b, " %s |", md(r.Value(p, i)))
 		}
-		t := p.Taps[0]
-		fmt.Fprintf(&b, " %d | %d | %s | [%s, %s] | %s |", t.Trials, t.Errors, Num(t.Rate), Num(t.Low), Num(t.High), p.Stop)
+		if t := p.Taps[0]; p.Stop == skipped {
+			// Nothing was counted: empty cells, not a measured 0 of 0 with the interval [0, 1].
+			fmt.Fprintf(&b, " | | | | %s |", strings.TrimSuffix(skipped+": "+p.Note, ": "))
+		} else {
+			fmt.Fprintf(&b, " %d | %d | %s | [%s, %s] | %s |", t.Trials, t.Errors, Num(t.Rate), Num(t.Low), Num(t.High), p.Stop)
+		}
 		for _, v := range p.Theory {
 			fmt.Fprintf(&b, " %s |", Num(v))
 		}
@@ -88,6 +92,9 @@ func Summary(r *result.Run, files []string) []byte {
 	b.WriteString("\nSimulated and estimated error rates do not replace conformance testing under the applicable standards and licensed practice.\n")
 	return b.Bytes()
 }
+
+// skipped is the stop of a point a sweep rule did not run.
+const skipped = "skipped"
 
 func targetLine(r *result.Run, t result.Target) string {
 	x := "the x axis"

@@ -140,15 +140,19 @@ func goals(rules []stop.Rule) (errs, bits int64) {
 			if bits == 0 || r.Max < bits {
 				bits = r.Max
 			}
+		case *stop.AllOf: // its error count is a goal the point must reach
+			if e, _ := goals(r.Rules); e > 0 && (errs == 0 || e < errs) {
+				errs = e
+			}
 		}
 	}
 	return errs, bits
 }
 
 // Left estimates the time until the first rule is met, from the rates seen so far: errors
-// still wanted over errors per second, bits still wanted over bits per second, or what is left
-// of a time budget. Rules it cannot project (interval rules) are left out; false when none can
-// be.
+// still wanted over errors per second, bits or frames still wanted over bits or frames per
+// second, or what is left of a time budget; for All, the longest of its rules' times. Rules
+// it cannot project (interval rules) are left out; false when none can be.
 func Left(rules []stop.Rule, pr *stop.Progress) (time.Duration, bool) {
 	sec := pr.Elapsed.Seconds()
 	if sec <= 0 {
@@ -156,37 +160,56 @@ func Left(rules []stop.Rule, pr *stop.Progress) (time.Duration, bool) {
 	}
 	best := math.Inf(1)
 	for _, r := range rules {
-		var done, want float64
-		switch r := r.(type) {
-		case *stop.ErrorTarget:
-			on := r.On
-			if on == "" {
-				on = link.TapBER
-			}
-			t, _ := pr.Tap(on)
-			done, want = float64(t.Errors), float64(r.Count)
-			if t.Estimator != link.Count {
-				// A weighted tap meets the rule at the precision of Count errors, which grows
-				// about in proportion to the frames run.
-				done = math.Min(stats.EquivalentErrors(t), 1e300)
-			}
-		case *stop.BitCap:
-			t, _ := pr.Tap(link.TapBER)
-			done, want = float64(t.Trials), float64(r.Max)
-		case *stop.TimeLimit:
-			done, want = sec, r.Max.Seconds()
-		default:
-			continue
+		if s, ok := left(r, pr, sec); ok {
+			best = math.Min(best, s)
 		}
-		if done <= 0 {
-			continue
-		}
-		best = math.Min(best, math.Max(0, want-done)*sec/done)
 	}
 	if math.IsInf(best, 1) {
 		return 0, false
 	}
 	return time.Duration(best * float64(time.Second)), true
+}
+
+// left is the seconds until r is met, and false when r cannot be projected.
+func left(r stop.Rule, pr *stop.Progress, sec float64) (float64, bool) {
+	var done, want float64
+	switch r := r.(type) {
+	case *stop.ErrorTarget:
+		on := r.On
+		if on == "" {
+			on = link.TapBER
+		}
+		t, _ := pr.Tap(on)
+		done, want = float64(t.Errors), float64(r.Count)
+		if t.Estimator != link.Count {
+			// A weighted tap meets the rule at the precision of Count errors, which grows
+			// about in proportion to the frames run.
+			done = math.Min(stats.EquivalentErrors(t), 1e300)
+		}
+	case *stop.BitCap:
+		t, _ := pr.Tap(link.TapBER)
+		done, want = float64(t.Trials), float64(r.Max)
+	case *stop.FrameCount:
+		done, want = float64(pr.Frames), float64(r.Min)
+	case *stop.TimeLimit:
+		done, want = sec, r.Max.Seconds()
+	case *stop.AllOf:
+		most := 0.0
+		for _, m := range r.Rules {
+			s, ok := left(m, pr, sec)
+			if !ok {
+				return 0, false
+			}
+			most = math.Max(most, s)
+		}
+		return most, len(r.Rules) > 0
+	default:
+		return 0, false
+	}
+	if done <= 0 {
+		return 0, false
+	}
+	return math.Max(0, want-done) * sec / done, true
 }
 
 // Finished is the line a finished point leaves: the point, its BER tap's count, estimate and

@@ -35,6 +35,10 @@ func TestLeft(t *testing.T) {
 		{[]stop.Rule{stop.Time(5 * time.Second)}, 3 * time.Second, true},
 		{[]stop.Rule{stop.Errors(100).Tap(link.TapFER)}, 6 * time.Second, true}, // 25 of 100 frame errors
 		{[]stop.Rule{stop.Precision(1.5)}, 0, false},
+		// All waits for its slowest rule: 1000 of 4000 frames in 2 s leaves 6 s.
+		{[]stop.Rule{stop.All(stop.Errors(100), stop.Frames(4000))}, 6 * time.Second, true},
+		{[]stop.Rule{stop.All(stop.Errors(100), stop.Frames(1000)), stop.Bits(1e7)}, 2 * time.Second, true},
+		{[]stop.Rule{stop.All(stop.Errors(100), stop.Precision(1.5))}, 0, false},
 	} {
 		got, ok := Left(c.rules, p)
 		if ok != c.ok || (ok && (got-c.want).Abs() > time.Millisecond) {
@@ -55,6 +59,14 @@ func TestLive(t *testing.T) {
 		if !strings.Contains(s, want) {
 			t.Errorf("live line %q lacks %q", s, want)
 		}
+	}
+}
+
+// The error count inside All is the goal the line shows.
+func TestLiveAllGoal(t *testing.T) {
+	p := Point{Label: "ebn0_db=4", Index: 2, Total: 6, Rules: []stop.Rule{stop.All(stop.Errors(100), stop.Frames(20)), stop.Bits(1e7)}}
+	if s := Live(p, prog(1.23e6, 57, time.Second)); !strings.Contains(s, "errors 57/100") || !strings.Contains(s, "bits 1.23M/10M") {
+		t.Errorf("live line %q lacks errors 57/100 or bits 1.23M/10M", s)
 	}
 }
 

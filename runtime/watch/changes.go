@@ -157,7 +157,7 @@ func targetChanges(prev, next *result.Run) []string {
 			lines = append(lines, fmt.Sprintf("%s: now at %s %.2f (was not bracketed)", where, x, t.X))
 		default:
 			d := t.X - o.X
-			s := fmt.Sprintf("%s at %s: %.2f → %.2f (%s%.2f%s)", where, x, o.X, t.X, sign(d), math.Abs(d), unit)
+			s := fmt.Sprintf("%s at %s: %.2f → %.2f (%s%s)", where, x, o.X, t.X, signed(d), unit)
 			// Intervals that do not overlap say the crossing moved beyond its uncertainty.
 			if t.High < o.Low || o.High < t.Low {
 				s += ", beyond both intervals"
@@ -166,6 +166,15 @@ func targetChanges(prev, next *result.Run) []string {
 		}
 	}
 	return lines
+}
+
+// signed is d to two decimals with its sign, and "0.00" when it rounds to zero (not −0.00).
+func signed(d float64) string {
+	s := fmt.Sprintf("%.2f", math.Abs(d))
+	if s == "0.00" {
+		return s
+	}
+	return sign(d) + s
 }
 
 func sign(d float64) string {

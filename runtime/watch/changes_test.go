@@ -56,3 +56,15 @@ func TestChangesPointsAndTargets(t *testing.T) {
 		}
 	}
 }
+
+// A shift that rounds to zero reads 0.00, never −0.00 or +0.00.
+func TestSignedShift(t *testing.T) {
+	for _, c := range []struct {
+		d    float64
+		want string
+	}{{-0.001, "0.00"}, {0.004, "0.00"}, {0, "0.00"}, {-0.006, "−0.01"}, {0.25, "+0.25"}, {-1.5, "−1.50"}} {
+		if got := signed(c.d); got != c.want {
+			t.Errorf("signed(%v) = %q, want %q", c.d, got, c.want)
+		}
+	}
+}

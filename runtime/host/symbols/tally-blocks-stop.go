@@ -16,21 +16,26 @@ func init() {
 	Symbols["tally/blocks/stop/stop"] = map[string]reflect.Value{
 		// function, constant and variable definitions
 		"Above":             reflect.ValueOf(stop.Above),
+		"All":               reflect.ValueOf(stop.All),
 		"Below":             reflect.ValueOf(stop.Below),
 		"Bits":              reflect.ValueOf(stop.Bits),
 		"Budget":            reflect.ValueOf(stop.Budget),
 		"DefaultConfidence": reflect.ValueOf(constant.MakeFromLiteral("0.9499999999999999999891579782751449556599254719913005828857421875", token.FLOAT, 0)),
+		"EndedBy":           reflect.ValueOf(stop.EndedBy),
 		"Errors":            reflect.ValueOf(stop.Errors),
 		"Evidence":          reflect.ValueOf(stop.Evidence),
 		"Floor":             reflect.ValueOf(stop.Floor),
+		"Frames":            reflect.ValueOf(stop.Frames),
 		"Precision":         reflect.ValueOf(stop.Precision),
 		"Time":              reflect.ValueOf(stop.Time),
 
 		// type definitions
+		"AllOf":       reflect.ValueOf((*stop.AllOf)(nil)),
 		"BitBudget":   reflect.ValueOf((*stop.BitBudget)(nil)),
 		"BitCap":      reflect.ValueOf((*stop.BitCap)(nil)),
 		"ErrorTarget": reflect.ValueOf((*stop.ErrorTarget)(nil)),
 		"FloorRule":   reflect.ValueOf((*stop.FloorRule)(nil)),
+		"FrameCount":  reflect.ValueOf((*stop.FrameCount)(nil)),
 		"Outcome":     reflect.ValueOf((*stop.Outcome)(nil)),
 		"Progress":    reflect.ValueOf((*stop.Progress)(nil)),
 		"Rule":        reflect.ValueOf((*stop.Rule)(nil)),

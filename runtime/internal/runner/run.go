@@ -183,7 +183,7 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		}
 		l = x.Build(pt)
 		if l == nil {
-			return nil, fmt.Errorf("sim: the Link function returned nil for point %d", pt.Index+1)
+			return nil, fmt.Errorf("sim: the Link function returned nil for point %d (%s)", pt.Index, pt.text())
 		}
 		x.estimateOn(l)
 		return l, nil
@@ -192,7 +192,7 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 	if where == nil {
 		where = func() string { return scriptPos(callers(5)) }
 	}
-	spec := engine.Spec{Point: pt.Index, Build: build, Rules: rules, Seed: seed, Workers: workers, Where: where}
+	spec := engine.Spec{Point: pt.Index, Label: pt.text(), Build: build, Rules: rules, Seed: seed, Workers: workers, Where: where}
 	// The long-run session adds the checkpoint, shard or replay around the engine run.
 	lp := longrun.Point{Index: pt.Index, Values: pt.Values, Label: pt.text()}
 	out, err := x.long.Run(lp, spec, func(s engine.Spec) (engine.Outcome, error) { return x.runEngine(ctx, pt, rules, s) })
@@ -203,10 +203,13 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 	if c, ok := out.Rule.(interface{ Method() string }); ok {
 		rp.Claim = c.Method()
 	}
+	// The inverse sampling interval holds on the tap of the error count that ended the point
+	// (stop.EndedBy: an All ended by its other rules is a fixed-sample count).
+	ended := stop.EndedBy(out.Rule, &stop.Progress{Frames: out.Frames, Taps: out.Taps, Counts: out.Counts})
 	for i, name := range out.Taps {
 		var target int64
-		if et, ok := out.Rule.(*stop.ErrorTarget); ok && et.On == name {
-			target = et.Count
+		if ended != nil && ended.On == name {
+			target = ended.Count
 		}
 		c := out.Counts[i]
 		if c.Estimator != link.Count { // importance sampling, semi-analytic (estimate.go)

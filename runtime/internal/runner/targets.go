@@ -36,7 +36,7 @@ func (x *experiment) findTargets(run *result.Run) {
 				Unit: output.AxisUnit(run.Params[0]), Method: stats.CrossingMethod}
 			cr, err := stats.AtTarget(xs, est, t.Rate)
 			if err != nil {
-				tr.Note = err.Error()
+				tr.Note = note(err)
 			} else {
 				tr.Found, tr.X, tr.Low, tr.High = true, cr.X, cr.Low, cr.High
 				tr.Open = openEnds(cr.Low, cr.High)
@@ -58,7 +58,7 @@ func (x *experiment) findTargets(run *result.Run) {
 							return fn(Point{Names: run.Params, Values: vals, Labels: x.labels()})
 						})
 						if err != nil {
-							tr.Note = err.Error()
+							tr.Note = note(err)
 						} else {
 							tr.Penalty, tr.TheoryX = loss.DB, loss.Theory
 						}
