@@ -8,8 +8,8 @@ import (
 	"io"
 	"os"
 	"os/signal"
-	"runtime"
 	"path/filepath"
+	"runtime"
 	"time"
 
 	"tally/runtime/host"
