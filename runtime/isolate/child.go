@@ -137,8 +137,11 @@ func (c *child) answer() error {
 
 // samplePos tells the parent where the script is, so a crash can be placed at a statement.
 func (c *child) samplePos(ctx context.Context, where func() string) {
-	t := time.NewTicker(10 * time.Millisecond)
+	// Every millisecond while the run starts, since a crash in its first frames comes soon;
+	// every 10 ms after that.
+	t := time.NewTicker(time.Millisecond)
 	defer t.Stop()
+	slow := time.After(2 * time.Second)
 	last := ""
 	for {
 		if p := where(); p != last {
@@ -148,6 +151,8 @@ func (c *child) samplePos(ctx context.Context, where func() string) {
 		select {
 		case <-ctx.Done():
 			return
+		case <-slow:
+			t.Reset(10 * time.Millisecond)
 		case <-t.C:
 		}
 	}
