@@ -18,23 +18,13 @@ import (
 // it is the familiar −ln(1−C)/n ≈ 3/n at 95 %. For C > ½ they are the ends of the two-sided
 // Clopper–Pearson interval at confidence 2C − 1, so blocks/stats computes them with its care
 // for counts past gonum's Beta range; for C ≤ ½, gonum's Beta quantile.
-//
-// tally interval (runtime/lab) is gaining the same limit; this one stays until the two are
-// unified.
+// The upper limit is the one tally interval prints (stats.UpperLimit), so the two commands
+// agree on the lab's question.
 func upperLimit(k, n int64, confidence float64) (float64, error) {
-	switch {
-	case n <= 0:
+	if n <= 0 || k >= n {
 		return 1, nil
-	case k >= n:
-		return 1, nil
-	case k == 0:
-		e, err := stats.ClopperPearson(0, n, confidence) // already one-sided at k = 0
-		return e.High, err
-	case confidence > 0.5:
-		e, err := stats.ClopperPearson(k, n, 2*confidence-1)
-		return e.High, err
 	}
-	return betaQuantile(confidence, float64(k+1), float64(n-k))
+	return stats.UpperLimit(k, n, confidence) // the limit tally interval gives
 }
 
 func lowerLimit(k, n int64, confidence float64) (float64, error) {

@@ -150,9 +150,21 @@ func (r *rate) String() string {
 }
 
 func (r *rate) Set(s string) error {
+	v, err := Rate(s)
+	if err != nil {
+		return errors.New("not a line rate (bits per second: 10e9, 10G, 2.5G, 100M)")
+	}
+	r.v, r.set = v, true
+	return nil
+}
+
+// Rate reads a line rate in bit/s with an optional SI prefix (k, M, G, T) and an optional
+// unit: 10e9, 10G, 2.5G, 155.52M, 64k, "100 Mbit/s". It says nothing of whether the rate makes
+// sense; the caller bounds it.
+func Rate(s string) (float64, error) {
 	t := strings.TrimSpace(s)
 	for _, unit := range []string{"bit/s", "b/s", "bps"} {
-		if strings.HasSuffix(strings.ToLower(t), unit) {
+		if len(t) > len(unit) && strings.EqualFold(t[len(t)-len(unit):], unit) {
 			t = strings.TrimSpace(t[:len(t)-len(unit)])
 			break
 		}
@@ -170,13 +182,12 @@ func (r *rate) Set(s string) error {
 			scale = 1e12
 		}
 		if scale != 1 {
-			t = t[:n-1]
+			t = strings.TrimSpace(t[:n-1])
 		}
 	}
 	v, err := strconv.ParseFloat(t, 64)
 	if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-		return errors.New("not a line rate (bits per second: 10e9, 10G, 2.5G, 100M)")
+		return 0, fmt.Errorf("%q is not a line rate", s)
 	}
-	r.v, r.set = v*scale, true
-	return nil
+	return v * scale, nil
 }
