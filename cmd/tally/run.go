@@ -8,9 +8,14 @@ import (
 	"io"
 	"os"
 	"os/signal"
+	"path/filepath"
+	"time"
 
 	"tally/runtime/host"
 	"tally/runtime/longrun"
+	"tally/runtime/output"
+	"tally/runtime/page"
+	"tally/runtime/result"
 	"tally/runtime/sim"
 )
 
@@ -73,6 +78,7 @@ func (f *runFlags) parse(args []string) int {
 
 func runCmd(args []string, stdout, stderr io.Writer) int {
 	f := newRunFlags("run", "FILE.go", stderr)
+	html := f.fs.Bool("html", false, "also write index.html, the results page as one file to open or send")
 	if code := f.parse(args); code >= 0 {
 		return code
 	}
@@ -82,7 +88,30 @@ func runCmd(args []string, stdout, stderr io.Writer) int {
 	}
 	ctx, stopSignals := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stopSignals()
-	return exitCode(host.Run(ctx, f.fs.Arg(0), f.config(stderr)), stderr)
+	cfg := f.config(stderr)
+	var last *result.Run
+	if *html {
+		cfg.Done = func(r *result.Run) error { last = r; return nil }
+	}
+	if err := host.Run(ctx, f.fs.Arg(0), cfg); err != nil {
+		return exitCode(err, stderr)
+	}
+	if last != nil && (f.long == nil || f.long.Shard == nil) {
+		if err := writeSnapshot(f.fs.Arg(0), last); err != nil {
+			fmt.Fprintf(stderr, "tally: %v\n", err)
+			return 1
+		}
+	}
+	return 0
+}
+
+// writeSnapshot writes the results page of a finished run beside its other outputs.
+func writeSnapshot(script string, r *result.Run) error {
+	b, err := page.Snapshot([]*result.Run{r}, []string{filepath.Base(script)}, time.Now())
+	if err != nil {
+		return fmt.Errorf("index.html: %w", err)
+	}
+	return output.Atomic(filepath.Join(sim.OutputDir(script), "index.html"), b)
 }
 
 // exitCode reports a run's error and gives the exit code: 1 for a script or run error, 130 for

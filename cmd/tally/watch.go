@@ -2,10 +2,12 @@ package main
 
 import (
 	"context"
+	"fmt"
 	"io"
 	"os"
 	"os/signal"
 
+	"tally/runtime/page"
 	"tally/runtime/watch"
 )
 
@@ -16,6 +18,7 @@ func init() {
 // watchCmd runs each experiment once, then again on every save, until Ctrl-C.
 func watchCmd(args []string, stdout, stderr io.Writer) int {
 	f := newRunFlags("watch", "PATH...", stderr)
+	addr := f.fs.String("http", "", "serve a live page at `ADDR` (host:port; :0 picks a free port; loopback unless a host is named)")
 	if code := f.parse(args); code >= 0 {
 		return code
 	}
@@ -25,7 +28,19 @@ func watchCmd(args []string, stdout, stderr io.Writer) int {
 	}
 	ctx, stopSignals := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stopSignals()
-	err := watch.Run(ctx, f.fs.Args(), watch.Config{Host: f.config(stderr), Out: stdout})
+	cfg := watch.Config{Host: f.config(stderr), Out: stdout}
+	if *addr != "" {
+		l, err := page.Listen(*addr)
+		if err != nil {
+			fmt.Fprintf(stderr, "tally: %v\n", err)
+			return 1
+		}
+		hub := page.NewHub()
+		hub.Attach(&cfg)
+		fmt.Fprintf(stdout, "page: %s (read-only)\n", page.URL(l))
+		go page.Serve(ctx, l, hub)
+	}
+	err := watch.Run(ctx, f.fs.Args(), cfg)
 	if err != nil {
 		return exitCode(err, stderr)
 	}

@@ -26,8 +26,10 @@ import (
 	ysyscall "github.com/traefik/yaegi/stdlib/syscall"
 	yunsafe "github.com/traefik/yaegi/stdlib/unsafe"
 
+	"tally/blocks/stop"
 	"tally/runtime/host/symbols"
 	"tally/runtime/longrun"
+	"tally/runtime/progress"
 	"tally/runtime/result"
 	"tally/runtime/sim"
 )
@@ -46,6 +48,9 @@ type Config struct {
 	Stdout  io.Writer // the script's own prints (default stdout)
 	// Done receives each finished run before its files are written.
 	Done func(r *result.Run) error
+	// OnPoint and OnProgress, if set, follow the run as it goes (see sim.Options).
+	OnPoint    func(run *result.Run, total int)
+	OnProgress func(p progress.Point, pr *stop.Progress)
 	// Long are the checkpoint, resume, shard and merge settings (nil: no checkpoint).
 	Long *longrun.Settings
 }
@@ -85,7 +90,8 @@ func Run(ctx context.Context, path string, cfg Config) error {
 	marked, mk := instrument(fset, file, src)
 	sim.Hosted()
 	opts := &sim.Options{Context: ctx, Script: path, Source: src, Mode: "interpreted", Workers: cfg.Workers,
-		Seed: cfg.Seed, SeedSet: cfg.SeedSet, Quiet: cfg.Quiet, Log: cfg.Log, Done: cfg.Done, Long: cfg.Long}
+		Seed: cfg.Seed, SeedSet: cfg.SeedSet, Quiet: cfg.Quiet, Log: cfg.Log, Done: cfg.Done, Long: cfg.Long,
+		OnPoint: cfg.OnPoint, OnProgress: cfg.OnProgress}
 	var stderr bytes.Buffer
 	stdout := cfg.Stdout
 	if stdout == nil {

@@ -14,11 +14,22 @@ import (
 // line is erased before the point's finished line is printed.
 func (x *Experiment) runEngine(ctx context.Context, pt Point, rules []stop.Rule, s engine.Spec) (engine.Outcome, error) {
 	o := x.opts
+	pp := progress.Point{Label: pt.text(), Index: pt.Index, Total: x.pointCount(),
+		Rules: rules, Confidence: x.confidence, Method: x.method}
+	var line *progress.Line
 	if !o.Quiet && isTerminal(o.log()) {
-		line := progress.NewLine(o.log(), progress.Point{Label: pt.text(), Index: pt.Index, Total: x.pointCount(),
-			Rules: rules, Confidence: x.confidence, Method: x.method})
+		line = progress.NewLine(o.log(), pp)
 		defer line.Close()
-		s.OnProgress = line.Update
+	}
+	if line != nil || o.OnProgress != nil {
+		s.OnProgress = func(pr *stop.Progress) {
+			if line != nil {
+				line.Update(pr)
+			}
+			if o.OnProgress != nil {
+				o.OnProgress(pp, pr)
+			}
+		}
 		s.ProgressEvery = progressEvery
 	}
 	return engine.Run(ctx, s)

@@ -111,6 +111,9 @@ func (x *Experiment) Execute() (*result.Run, error) {
 		if skip, why := x.skip(run, pt); skip {
 			run.Points = append(run.Points, x.skipped(run, pt, why))
 			x.opts.logf("%s  skipped: %s\n", pt.text(), why)
+			if o.OnPoint != nil {
+				o.OnPoint(run, len(points))
+			}
 			continue
 		}
 		rp, err := x.runPoint(ctx, pt, rules, seed, workers)
@@ -120,6 +123,9 @@ func (x *Experiment) Execute() (*result.Run, error) {
 		run.Taps = unionTaps(run.Taps, rp.Taps)
 		run.Points = append(run.Points, rp)
 		x.report(pt, rp)
+		if o.OnPoint != nil {
+			o.OnPoint(run, len(points))
+		}
 		if rp.Stop == engine.Interrupted {
 			run.Interrupted = true
 			break
