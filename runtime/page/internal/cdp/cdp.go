@@ -354,4 +354,3 @@ func (p *Page) Errors() []string {
 
 // Close ends the page's connection.
 func (p *Page) Close() error { return p.ws.close() }
-
