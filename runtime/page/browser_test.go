@@ -193,7 +193,7 @@ func TestBrowser(t *testing.T) {
 		}
 	}
 	// 7 points (Eb/N0 0…6): 7 markers, 7 table rows, theory drawn, a crossing found.
-	must("the first run drawn", sec+` && `+sec+`.dataset.status === "finished" && `+sec+`.querySelectorAll(".plot circle.mk, .plot path.mk").length === 7`, 20*time.Second)
+	must("the first run drawn", sec+` && `+sec+`.dataset.status === "finished" && `+sec+`.querySelector(".plot > svg").dataset.n === "7"`, 20*time.Second)
 	var got struct {
 		Rows     int    `json:"rows"`
 		Theory   int    `json:"theory"`
@@ -210,10 +210,12 @@ func TestBrowser(t *testing.T) {
 	}
 	// The hover text of a point names its counts, interval, stop reason and theory.
 	var tipText string
-	err = p.Eval(ctx, `(() => { const h = `+sec+`.querySelector(".plot circle.hit");
-		h.dispatchEvent(new MouseEvent("mouseover", {bubbles: true, clientX: 200, clientY: 200}));
+	err = p.Eval(ctx, `(() => { const svg = `+sec+`.querySelector(".plot > svg");
+		const pts = window.tallyPage.hover.get("bench"), q = pts[2];
+		const at = new DOMPoint(q.x, q.y).matrixTransform(svg.getScreenCTM());
+		svg.dispatchEvent(new MouseEvent("mousemove", {bubbles: true, clientX: at.x + 2, clientY: at.y + 1}));
 		return document.getElementById("tip").innerText; })()`, &tipText)
-	for _, want := range []string{"errors in", "95 % interval", "stopped by", "theory coherent"} {
+	for _, want := range []string{"ebn0_db=2", "errors in", "95 % interval", "stopped by", "theory coherent"} {
 		if err != nil || !strings.Contains(tipText, want) {
 			t.Errorf("hover text lacks %q: %q (%v)", want, tipText, err)
 		}
@@ -236,6 +238,7 @@ func TestBrowser(t *testing.T) {
 		t.Errorf("no what-changed report: %q", changed)
 	}
 
+	p.Eval(ctx, `document.getElementById("tip").hidden = true`, nil)
 	// A broken save: the error at its position, the last good results beneath it, stale.
 	os.WriteFile(script, []byte(broken()), 0o644)
 	must("the error shown", sec+`.dataset.status === "failed" && `+sec+`.dataset.stale === "yes"`, 30*time.Second)

@@ -18,6 +18,7 @@ import (
 // an interval bound of a zero count, a rate of nothing).
 func JSON(v any) ([]byte, error) {
 	var b bytes.Buffer
+	b.Grow(4096)
 	if err := encode(&b, reflect.ValueOf(v)); err != nil {
 		return nil, err
 	}
@@ -56,9 +57,14 @@ func encode(b *bytes.Buffer, v reflect.Value) error {
 			}
 			b.Write(strconv.AppendFloat(b.AvailableBuffer(), f, 'g', -1, bits))
 		}
-	case reflect.Bool, reflect.String, reflect.Int, reflect.Int8, reflect.Int16, reflect.Int32, reflect.Int64,
-		reflect.Uint, reflect.Uint8, reflect.Uint16, reflect.Uint32, reflect.Uint64, reflect.Uintptr:
-		return plain(b, v.Interface())
+	case reflect.String:
+		str(b, v.String())
+	case reflect.Int, reflect.Int8, reflect.Int16, reflect.Int32, reflect.Int64:
+		b.Write(strconv.AppendInt(b.AvailableBuffer(), v.Int(), 10))
+	case reflect.Uint, reflect.Uint8, reflect.Uint16, reflect.Uint32, reflect.Uint64, reflect.Uintptr:
+		b.Write(strconv.AppendUint(b.AvailableBuffer(), v.Uint(), 10))
+	case reflect.Bool:
+		b.WriteString(strconv.FormatBool(v.Bool()))
 	case reflect.Pointer, reflect.Interface:
 		return encode(b, v.Elem())
 	case reflect.Slice, reflect.Array:
@@ -86,9 +92,7 @@ func encode(b *bytes.Buffer, v reflect.Value) error {
 			if i > 0 {
 				b.WriteByte(',')
 			}
-			if err := plain(b, key.String()); err != nil {
-				return err
-			}
+			str(b, key.String())
 			b.WriteByte(':')
 			if err := encode(b, v.MapIndex(key)); err != nil {
 				return err
@@ -147,9 +151,7 @@ func fields(b *bytes.Buffer, v reflect.Value, first *bool) error {
 			b.WriteByte(',')
 		}
 		*first = false
-		if err := plain(b, name); err != nil {
-			return err
-		}
+		str(b, name)
 		b.WriteByte(':')
 		if err := encode(b, fv); err != nil {
 			return fmt.Errorf("%s: %w", sf.Name, err)
@@ -175,6 +177,22 @@ func empty(v reflect.Value) bool {
 		return v.IsNil()
 	}
 	return false
+}
+
+// str writes a string as encoding/json does: plain ASCII as it is, anything else through
+// encoding/json (which escapes <, > and & too, so the text can sit in a script element).
+func str(b *bytes.Buffer, s string) {
+	for i := 0; i < len(s); i++ {
+		c := s[i]
+		if c < 0x20 || c >= 0x80 || c == '"' || c == '\\' || c == '<' || c == '>' || c == '&' {
+			out, _ := json.Marshal(s)
+			b.Write(out)
+			return
+		}
+	}
+	b.WriteByte('"')
+	b.WriteString(s)
+	b.WriteByte('"')
 }
 
 // plain writes what encoding/json writes for a value it can encode.

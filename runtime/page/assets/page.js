@@ -12,6 +12,7 @@
     bars: new Set(),   // ids whose progress bar changed
     fresh: new Set(),  // ids whose run just started
     cards: new Map(),  // id -> its section element
+    userTable: new Set(), // ids whose table the reader opened or folded
     hover: new Map(),  // id -> hover records of the points drawn, by index
     queued: false,
     snapshot: 0,
@@ -192,7 +193,7 @@
       }
     });
     // the runs: faded ghost first, then the run itself
-    var legend = [], hov = [];
+    var legend = [], hov = [], drawn = 0;
     S.hover.set(v.id, hov);
     runs.forEach(function (r) {
       var cs = curves(r.run);
@@ -217,27 +218,35 @@
           if (t && t.trials > 0 && num(t.errors) > 0) d += (d ? "L" : "M") + X(num(q.p.values[0])).toFixed(1) + " " + Y(num(t.rate)).toFixed(1);
         });
         if (d) s.push('<path d="' + d + '" fill="none" stroke="' + col + '" stroke-width="1.6"/>');
+        // One path each for the bars, the dots and the open triangles of a curve, however
+        // many points: the page stays light with thousands of them. Hovering finds the
+        // nearest point (see the mousemove handler).
+        var bars = "", dots = "", tris = "";
         c.points.forEach(function (q) {
           var t = tapOf(q.p, tap);
           if (!t || !(t.trials > 0)) return;
-          var x = X(num(q.p.values[0])), lo_ = Y(num(t.ci_low)), hi_ = Y(num(t.ci_high));
-          s.push('<path d="M' + x + " " + lo_ + "V" + hi_ + "M" + (x - 3) + " " + lo_ + "h6M" + (x - 3) + " " + hi_ + 'h6" stroke="' + col + '" stroke-width="1"/>');
-          var h = r.ghost ? -1 : hov.push({ run: r.run, p: q.p, tap: tap }) - 1;
+          var x = +X(num(q.p.values[0])).toFixed(1), lo_ = +Y(num(t.ci_low)).toFixed(1), hi_ = +Y(num(t.ci_high)).toFixed(1);
+          bars += "M" + x + " " + lo_ + "V" + hi_ + "M" + (x - 3) + " " + lo_ + "h6M" + (x - 3) + " " + hi_ + "h6";
+          var y;
           if (num(t.errors) === 0) {
             // no error: drawn at its upper bound, an open triangle pointing down
-            var yb = hi_;
-            if (h >= 0) s.push('<circle class="hit" data-h="' + h + '" cx="' + x + '" cy="' + yb + '" r="9"/>');
-            s.push('<path class="mk" d="M' + (x - 5) + " " + (yb - 4) + "h10l-5 8z" + '" fill="#fffdf8" stroke="' + col + '" stroke-width="1.4"/>');
+            y = hi_;
+            tris += "M" + (x - 5) + " " + (y - 4) + "h10l-5 8z";
           } else {
-            var y = Y(num(t.rate));
-            if (h >= 0) s.push('<circle class="hit" data-h="' + h + '" cx="' + x + '" cy="' + y + '" r="9"/>');
-            s.push('<circle class="mk" cx="' + x + '" cy="' + y + '" r="3.6" fill="' + col + '" stroke="#fffdf8" stroke-width="1"/>');
+            y = +Y(num(t.rate)).toFixed(1);
+            dots += "M" + (x - 3.6) + " " + y + "a3.6 3.6 0 1 0 7.2 0a3.6 3.6 0 1 0 -7.2 0";
           }
+          if (!r.ghost) { hov.push({ run: r.run, p: q.p, tap: tap, x: x, y: y, colour: col }); drawn++; }
         });
+        if (bars) s.push('<path d="' + bars + '" stroke="' + col + '" stroke-width="1" fill="none"/>');
+        if (dots) s.push('<path class="dots" d="' + dots + '" fill="' + col + '" stroke="#fffdf8" stroke-width="1"/>');
+        if (tris) s.push('<path class="tris" d="' + tris + '" fill="#fffdf8" stroke="' + col + '" stroke-width="1.4"/>');
       });
       s.push("</g>");
     });
+    s.push('<circle class="ring" r="7" cx="-20" cy="-20"/>');
     s.push("</svg>");
+    s[0] = s[0].replace("<svg ", '<svg data-n="' + drawn + '" ');
     var lg = legend.map(function (l) {
       var sw = l.dash ? '<svg width="22" height="8"><line x1="0" x2="22" y1="4" y2="4" stroke="' + l.colour + '" stroke-width="1.4" stroke-dasharray="' + l.dash + '"/></svg>'
         : '<svg width="22" height="8"><line x1="0" x2="22" y1="4" y2="4" stroke="' + l.colour + '" stroke-width="1.6"/><circle cx="11" cy="4" r="3" fill="' + l.colour + '"/></svg>';
@@ -396,9 +405,11 @@
     el.querySelector(".plot").innerHTML = plot(v, tap);
     el.querySelector(".crossbox").innerHTML = crossings(v);
     el.querySelector(".changed").innerHTML = changes(v);
-    var tb = el.querySelector(".table");
-    tb.innerHTML = table(v);
+    // The table of a long sweep starts folded (and is then not built), until it is opened.
+    var tb = el.querySelector(".table"), det = el.querySelector(".points");
     var pts = run && run.points ? run.points.length : 0;
+    if (!S.userTable.has(v.id)) det.open = pts <= 40;
+    tb.innerHTML = det.open ? table(v) : "";
     el.querySelector(".points summary").textContent = "Points (" + pts + ")";
     drawBar(v, el);
   }
@@ -456,6 +467,7 @@
     requestAnimationFrame(flush);
   }
   function flush() {
+    var began = performance.now();
     S.queued = false;
     var ids = order();
     var nothing = main.querySelector(".nothing");
@@ -478,6 +490,7 @@
     });
     if (S.full.size || S.fresh.size) drawIndex();
     S.full.clear(); S.bars.clear(); S.fresh.clear();
+    S.flushMs = performance.now() - began;
   }
   function setState(d) {
     S.exps = new Map();
@@ -521,7 +534,7 @@
   function connect() {
     var es = new EventSource("events");
     S.stream = es;
-    es.addEventListener("state", function (e) { setState(JSON.parse(e.data)); setConn("live"); });
+    es.addEventListener("state", function (e) { var t = performance.now(); setState(JSON.parse(e.data)); S.stateMs = performance.now() - t; S.stateAt = t; setConn("live"); });
     es.addEventListener("exp", function (e) { upsert(JSON.parse(e.data)); });
     es.addEventListener("point", function (e) { onPoint(JSON.parse(e.data)); });
     es.addEventListener("progress", function (e) { onProgress(JSON.parse(e.data)); });
@@ -555,20 +568,38 @@
     rows.push('<span class="k">' + si(p.frames) + (p.frames === 1 ? " frame in " : " frames in ") + seconds(p.wall_seconds) + "</span>" + (num(p.bits_per_second) > 0 ? ' <span class="k">· ' + (num(p.bits_per_second) / 1e6).toFixed(1) + " Mbit/s</span>" : ""));
     return rows.join("<br>");
   }
-  main.addEventListener("mouseover", function (e) {
-    var t = e.target;
-    if (!t.classList || !t.classList.contains("hit")) return;
-    var sec = t.closest("section.exp");
-    var h = sec && (S.hover.get(sec.id.slice(4)) || [])[+t.getAttribute("data-h")];
-    if (!h) return;
-    tip.innerHTML = hoverText(h);
+  // Hovering a plot shows the nearest point within reach: its counts, interval, stop reason
+  // and theory, and rings it.
+  var ringed = null;
+  main.addEventListener("mousemove", function (e) {
+    var svg = e.target.closest && e.target.closest(".plot > svg");
+    if (!svg) { unhover(); return; }
+    var sec = svg.closest("section.exp");
+    var list = S.hover.get(sec.id.slice(4)) || [];
+    var m = svg.getScreenCTM();
+    if (!m) return;
+    var pt = new DOMPoint(e.clientX, e.clientY).matrixTransform(m.inverse());
+    var best = null, bd = 14 * 14;
+    for (var i = 0; i < list.length; i++) {
+      var dx = list[i].x - pt.x, dy = list[i].y - pt.y, d = dx * dx + dy * dy;
+      if (d < bd) { bd = d; best = list[i]; }
+    }
+    if (!best) { unhover(); return; }
+    var ring = svg.querySelector(".ring");
+    ring.setAttribute("cx", best.x);
+    ring.setAttribute("cy", best.y);
+    ring.setAttribute("stroke", best.colour);
+    if (ringed && ringed !== ring) ringed.setAttribute("cx", -20);
+    ringed = ring;
+    tip.innerHTML = hoverText(best);
     tip.hidden = false;
     place(e);
   });
-  main.addEventListener("mousemove", function (e) { if (!tip.hidden) place(e); });
-  main.addEventListener("mouseout", function (e) {
-    if (e.target.classList && e.target.classList.contains("hit")) tip.hidden = true;
-  });
+  main.addEventListener("mouseleave", unhover);
+  function unhover() {
+    if (ringed) { ringed.setAttribute("cx", -20); ringed = null; }
+    tip.hidden = true;
+  }
   function place(e) {
     var x = e.clientX + 14, y = e.clientY + 14;
     var r = tip.getBoundingClientRect();
@@ -577,7 +608,15 @@
     tip.style.left = x + "px";
     tip.style.top = y + "px";
   }
+  main.addEventListener("toggle", function (e) {
+    var det = e.target;
+    if (!det.matches || !det.matches("details.points") || !det.open) return;
+    var tb = det.querySelector(".table"), v = S.exps.get(det.closest("section.exp").id.slice(4));
+    if (v && !tb.firstChild) tb.innerHTML = table(v);
+  }, true);
   main.addEventListener("click", function (e) {
+    var sum = e.target.closest && e.target.closest("details.points > summary");
+    if (sum) S.userTable.add(sum.closest("section.exp").id.slice(4));
     var b = e.target.closest && e.target.closest("button[data-tap]");
     if (!b) return;
     var id = b.closest("section.exp").id.slice(4);
