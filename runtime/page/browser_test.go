@@ -133,11 +133,11 @@ func (s *session) wait(t testing.TB, kind watch.Kind) watch.Event {
 
 // shot saves a screenshot where the test's artifacts go ($TALLY_ARTIFACTS, else the test's
 // temporary folder) and says where.
-func shot(t testing.TB, p *cdp.Page, name string) string {
+func shot(t testing.TB, p *cdp.Page, name string, maxH int) string {
 	t.Helper()
 	ctx, cancel := context.WithTimeout(context.Background(), 30*time.Second)
 	defer cancel()
-	png, err := p.Screenshot(ctx, 1280)
+	png, err := p.Screenshot(ctx, 1280, maxH)
 	if err != nil {
 		t.Fatalf("screenshot: %v", err)
 	}
@@ -220,7 +220,7 @@ func TestBrowser(t *testing.T) {
 			t.Errorf("hover text lacks %q: %q (%v)", want, tipText, err)
 		}
 	}
-	shot(t, p, "page-finished.png")
+	shot(t, p, "page-finished.png", 0)
 
 	// A changed save: the page says "running" for run 2 within a few seconds, without a
 	// reload (a mark left in the page survives), then draws the 9 new points.
@@ -256,7 +256,7 @@ func TestBrowser(t *testing.T) {
 	if !strings.HasSuffix(fault.Where, "bench.go:18:9") || !strings.Contains(fault.Msg, "oops") || !fault.Stale || fault.Rows != 9 {
 		t.Errorf("broken save: %+v", fault)
 	}
-	shot(t, p, "page-error.png")
+	shot(t, p, "page-error.png", 0)
 
 	// The watcher stops: the page says so; it starts again at the same address: the page
 	// reconnects by itself and shows the experiment again.

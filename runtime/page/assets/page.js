@@ -150,8 +150,12 @@
       ly = Math.max(lo - 0.04, Math.min(hi, ly));
       return M.t + (hi - ly) / (hi - lo) * ph;
     }
+    // Ytheory does not pin values to the frame: a theory curve runs on below the measured
+    // points and is cut at the frame's edge (clip path).
+    function Ytheory(y) { return M.t + (hi - Math.log10(y)) / (hi - lo) * ph; }
     var s = [];
     s.push('<svg viewBox="0 0 ' + W + " " + H + '" role="img" aria-label="' + esc(tap.toUpperCase()) + ' against ' + esc(run.params[0]) + '">');
+    s.push('<clipPath id="frame-' + esc(v.id) + '"><rect x="' + M.l + '" y="' + M.t + '" width="' + pw + '" height="' + ph + '"/></clipPath>');
     // grid and axes
     for (var k = lo; k <= hi; k++) {
       s.push('<line class="grid major" x1="' + M.l + '" x2="' + (W - M.r) + '" y1="' + Y(Math.pow(10, k)) + '" y2="' + Y(Math.pow(10, k)) + '"/>');
@@ -206,10 +210,10 @@
           var d = "";
           c.points.forEach(function (q) {
             var y = num((q.p.theory || [])[ti]);
-            if (y > 0 && isFinite(y)) d += (d ? "L" : "M") + X(num(q.p.values[0])).toFixed(1) + " " + Y(y).toFixed(1);
+            if (y > 0 && isFinite(y)) d += (d ? "L" : "M") + X(num(q.p.values[0])).toFixed(1) + " " + Ytheory(y).toFixed(1);
           });
-          if (d) s.push('<path d="' + d + '" fill="none" stroke="' + col + '" stroke-width="1.2" stroke-dasharray="' + (ti ? "2 3" : "7 4") + '" opacity=".8"/>');
-          if (d && !r.ghost && ci === 0) legend.push({ label: "theory: " + name, colour: "#5d6470", dash: ti ? "2 3" : "7 4" });
+          if (d) s.push('<path clip-path="url(#frame-' + esc(v.id) + ')" d="' + d + '" fill="none" stroke="' + col + '" stroke-width="1.2" stroke-dasharray="' + (ti ? "2 3" : "7 4") + '" opacity=".8"/>');
+          if (d && !r.ghost && ci === 0) legend.push({ label: name === "theory" ? "theory" : "theory: " + name, colour: "#5d6470", dash: ti ? "2 3" : "7 4" });
         });
         // measured: line through the estimates, interval bars, markers
         var d = "";
@@ -288,7 +292,10 @@
   }
   function changes(v) {
     if (!v.changes || !v.changes.length) return '<p class="muted">' + (v.good ? "nothing to compare with yet" : "no run yet") + "</p>";
-    return '<pre class="changes">' + v.changes.map(function (l) {
+    var moved = v.changes.filter(function (l) { return /CHANGED, p =/.test(l); }).length;
+    var tested = v.changes.filter(function (l) { return /CHANGED, p =|within chance, p =/.test(l); }).length;
+    var head = tested ? '<p class="verdict' + (moved ? " moved" : "") + '">' + (moved ? moved + " of " + tested + " compared points moved beyond chance" : "no point moved beyond chance (" + tested + " compared)") + "</p>" : "";
+    return head + '<pre class="changes">' + v.changes.map(function (l) {
       var e = esc(l);
       if (/CHANGED, p =/.test(l)) return '<span class="moved">' + e + "</span>";
       if (/within chance/.test(l)) return '<span class="chance">' + e + "</span>";

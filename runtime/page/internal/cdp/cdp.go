@@ -327,11 +327,15 @@ func (p *Page) WaitFor(ctx context.Context, expr string) error {
 	}
 }
 
-// Screenshot is a PNG of the whole page, w pixels wide.
-func (p *Page) Screenshot(ctx context.Context, w int) ([]byte, error) {
+// Screenshot is a PNG of the page, w pixels wide and as tall as the page, up to maxH
+// pixels (0: no limit).
+func (p *Page) Screenshot(ctx context.Context, w, maxH int) ([]byte, error) {
 	var h float64
 	if err := p.Eval(ctx, "document.documentElement.scrollHeight", &h); err != nil {
 		return nil, err
+	}
+	if maxH > 0 && h > float64(maxH) {
+		h = float64(maxH)
 	}
 	if err := p.Call(ctx, "Emulation.setDeviceMetricsOverride", map[string]any{"width": w, "height": int(h), "deviceScaleFactor": 1, "mobile": false}, nil); err != nil {
 		return nil, err
