@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"net"
+	"net/http/httptest"
 	"os"
 	"path/filepath"
 	"strings"
@@ -270,4 +271,56 @@ func TestBrowser(t *testing.T) {
 		t.Errorf("the page's script threw: %q", errs)
 	}
 	t.Logf("browser test took %s", time.Since(began).Round(time.Millisecond))
+}
+
+// The progress bar of a running point: errors toward the goal fill it, the words give the
+// counts, rate and time left; the point's commit replaces it.
+func TestBrowserProgress(t *testing.T) {
+	if testing.Short() {
+		t.Skip("SKIP browser test in -short mode")
+	}
+	_, p := browser(t)
+	h := NewHub()
+	f := filepath.Join(t.TempDir(), "bar.go")
+	h.RunStarted(f)
+	srv := httptest.NewServer(Handler(h, true))
+	defer srv.Close()
+	defer h.Close()
+	ctx, cancel := context.WithTimeout(context.Background(), 60*time.Second)
+	defer cancel()
+	if err := p.Navigate(ctx, srv.URL+"/"); err != nil {
+		t.Fatal(err)
+	}
+	sec := `document.getElementById("exp-bar")`
+	if err := p.WaitFor(ctx, sec+` && `+sec+`.dataset.status === "running"`); err != nil {
+		t.Fatal(err)
+	}
+	h.Progress(f, Live{Label: "ebn0_db=4", Index: 2, Total: 6, Errors: 57, Goal: 100, Bits: 1230000, Cap: 10000000,
+		Rate: 38.1e6, Left: 2.1, BER: 4.63e-5, Low: 3.5e-5, High: 6e-5})
+	if err := p.WaitFor(ctx, sec+`.querySelector(".bar .fill")`); err != nil {
+		t.Fatal(err)
+	}
+	var bar struct {
+		Words string `json:"words"`
+		Width string `json:"width"`
+	}
+	p.Eval(ctx, `({words: `+sec+`.querySelector(".bar .words").innerText, width: `+sec+`.querySelector(".bar .fill").style.width})`, &bar)
+	for _, want := range []string{"[3/6] ebn0_db=4", "errors 57/100", "bits 1.23M/10M", "38.1 Mbit/s", "~2.1 s left"} {
+		if !strings.Contains(bar.Words, want) {
+			t.Errorf("progress words lack %q: %q", want, bar.Words)
+		}
+	}
+	// 57 of 100 errors is further along than 1.23M of 10M bits: the bar shows 57 %.
+	if bar.Width != "57%" && bar.Width != "57.0%" {
+		t.Errorf("bar width %q, want 57 %%", bar.Width)
+	}
+	full := syntheticRun("bar", 6)
+	for n := 1; n <= 3; n++ {
+		run := *full
+		run.Points = full.Points[:n]
+		h.PointCommitted(f, &run, 6)
+	}
+	if err := p.WaitFor(ctx, sec+`.dataset.points === "3" && !`+sec+`.querySelector(".bar") && `+sec+`.querySelector(".bars .note")`); err != nil {
+		t.Fatal(err)
+	}
 }
