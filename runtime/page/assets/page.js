@@ -56,7 +56,12 @@
     if (s < 7200) return Math.floor(s / 60) + " min " + Math.floor(s % 60) + " s";
     return Math.floor(s / 3600) + " h " + Math.floor((s % 3600) / 60) + " min";
   }
-  function fixed(x, d) { x = num(x); return isFinite(x) ? x.toFixed(d) : "–"; }
+  function fixed(x, d) {
+    x = num(x);
+    if (!isFinite(x)) return "–";
+    var t = x.toFixed(d);
+    return /^-0\.?0*$/.test(t) ? t.slice(1) : t;
+  }
   function clock(ms) {
     var d = new Date(ms);
     return d.toLocaleTimeString([], { hour: "2-digit", minute: "2-digit", second: "2-digit" });
@@ -347,7 +352,7 @@
     el.innerHTML = '<div class="head"><h2></h2><span class="pill"></span><div class="meta"></div></div>' +
       '<div class="fault" hidden></div><div class="bars"></div>' +
       '<div class="stalebox"><div class="stalemark"></div><div class="body"><div><div class="taps"></div><div class="plot"></div></div>' +
-      "<aside><h3>Crossings at the target</h3><div class=\"crossbox\"></div><h3>Since the run before</h3><div class=\"changed\"></div></aside></div></div>" +
+      "<aside><h3>Crossings at the target</h3><div class=\"crossbox\"></div><div class=\"since\"><h3>Since the run before</h3><div class=\"changed\"></div></div></aside></div></div>" +
       '<details class="points" open><summary>Points</summary><div class="table"></div></details>';
     return el;
   }
@@ -412,6 +417,7 @@
     el.querySelector(".plot").innerHTML = plot(v, tap);
     el.querySelector(".crossbox").innerHTML = crossings(v);
     el.querySelector(".changed").innerHTML = changes(v);
+    el.querySelector(".since").hidden = !!S.snapshot && !(v.changes && v.changes.length);
     // The table of a long sweep starts folded (and is then not built), until it is opened.
     var tb = el.querySelector(".table"), det = el.querySelector(".points");
     var pts = run && run.points ? run.points.length : 0;
