@@ -8,11 +8,16 @@ import (
 	"io"
 	"os"
 	"os/signal"
+	"path/filepath"
 	"runtime"
+	"time"
 
 	"tally/runtime/host"
 	"tally/runtime/isolate"
 	"tally/runtime/longrun"
+	"tally/runtime/output"
+	"tally/runtime/page"
+	"tally/runtime/result"
 	"tally/runtime/sim"
 )
 
@@ -81,6 +86,7 @@ func (f *runFlags) parse(args []string) int {
 
 func runCmd(args []string, stdout, stderr io.Writer) int {
 	f := newRunFlags("run", "FILE.go", stderr)
+	html := f.fs.Bool("html", false, "also write index.html, the results page as one file to open or send")
 	if code := f.parse(args); code >= 0 {
 		return code
 	}
@@ -90,12 +96,26 @@ func runCmd(args []string, stdout, stderr io.Writer) int {
 	}
 	ctx, stopSignals := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stopSignals()
-	return exitCode(isolate.Run(ctx, f.fs.Arg(0), f.isolated(stderr)), stderr)
+	iso := f.isolated(stderr)
+	if *html && (f.long == nil || f.long.Shard == nil) {
+		// The page of the run the parent received, written after its other outputs.
+		iso.Also = func(dir string, r *result.Run) error { return writeSnapshot(dir, f.fs.Arg(0), r) }
+	}
+	return exitCode(isolate.Run(ctx, f.fs.Arg(0), iso), stderr)
 }
 
 // isolated is how a run's child process is made.
 func (f *runFlags) isolated(stderr io.Writer) isolate.Config {
 	return isolate.Config{Host: f.config(stderr), Memory: f.memory.Bytes}
+}
+
+// writeSnapshot writes the results page of a finished run into dir, beside its other outputs.
+func writeSnapshot(dir, script string, r *result.Run) error {
+	b, err := page.Snapshot([]*result.Run{r}, []string{filepath.Base(script)}, time.Now())
+	if err != nil {
+		return fmt.Errorf("index.html: %w", err)
+	}
+	return output.Atomic(filepath.Join(dir, "index.html"), b)
 }
 
 // exitCode reports a run's error and gives the exit code: 1 for a script or run error, 130 for
