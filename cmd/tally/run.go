@@ -16,6 +16,7 @@ import (
 	"tally/runtime/isolate"
 	"tally/runtime/longrun"
 	"tally/runtime/output"
+	"tally/runtime/page"
 	"tally/runtime/progress"
 	"tally/runtime/result"
 	"tally/runtime/sim"
@@ -86,6 +87,7 @@ func (f *runFlags) parse(args []string) int {
 
 func runCmd(args []string, stdout, stderr io.Writer) int {
 	f := newRunFlags("run", "FILE.go", stderr)
+	html := f.fs.Bool("html", false, "also write index.html, the results page as one file to open or send")
 	if code := f.parse(args); code >= 0 {
 		return code
 	}
@@ -96,6 +98,10 @@ func runCmd(args []string, stdout, stderr io.Writer) int {
 	ctx, stopSignals := signal.NotifyContext(context.Background(), os.Interrupt)
 	defer stopSignals()
 	cfg := f.isolated(stderr)
+	if *html && (f.long == nil || f.long.Shard == nil) {
+		// The page of the run the parent received, written after its other outputs.
+		cfg.Also = func(dir string, r *result.Run) error { return writeSnapshot(dir, f.fs.Arg(0), r) }
+	}
 	var run *result.Run
 	done := cfg.Host.Done
 	cfg.Host.Done = func(r *result.Run) error {
@@ -125,6 +131,15 @@ func ending(w io.Writer, script string, r *result.Run, took time.Duration) {
 	for _, l := range output.Crossings(r) {
 		fmt.Fprintf(w, "  %s\n", l)
 	}
+}
+
+// writeSnapshot writes the results page of a finished run into dir, beside its other outputs.
+func writeSnapshot(dir, script string, r *result.Run) error {
+	b, err := page.Snapshot([]*result.Run{r}, []string{filepath.Base(script)}, time.Now())
+	if err != nil {
+		return fmt.Errorf("index.html: %w", err)
+	}
+	return output.Atomic(filepath.Join(dir, "index.html"), b)
 }
 
 // exitCode reports a run's error and gives the exit code: 1 for a script or run error, 130 for

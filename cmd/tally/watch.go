@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"fmt"
 	"io"
 	"os"
 	"os/signal"
@@ -9,6 +10,7 @@ import (
 
 	"tally/runtime/host"
 	"tally/runtime/isolate"
+	"tally/runtime/page"
 	"tally/runtime/watch"
 )
 
@@ -23,6 +25,7 @@ func init() {
 // watchCmd runs each experiment once, then again on every save, until Ctrl-C.
 func watchCmd(args []string, stdout, stderr io.Writer) int {
 	f := newRunFlags("watch", "PATH...", stderr)
+	addr := f.fs.String("http", "", "serve a live page at `ADDR` (host:port; :0 picks a free port; loopback unless a host is named)")
 	if code := f.parse(args); code >= 0 {
 		return code
 	}
@@ -39,7 +42,19 @@ func watchCmd(args []string, stdout, stderr io.Writer) int {
 		c.Host = cfg
 		return isolate.Run(ctx, path, c)
 	}
-	err := watch.Run(ctx, f.fs.Args(), watch.Config{Host: f.config(stderr), Out: stdout, Run: run})
+	cfg := watch.Config{Host: f.config(stderr), Out: stdout, Run: run}
+	if *addr != "" {
+		l, err := page.Listen(*addr)
+		if err != nil {
+			fmt.Fprintf(stderr, "tally: %v\n", err)
+			return 1
+		}
+		hub := page.NewHub()
+		hub.Attach(&cfg)
+		fmt.Fprintf(stdout, "page: %s (read-only)\n", page.URL(l))
+		go page.Serve(ctx, l, hub)
+	}
+	err := watch.Run(ctx, f.fs.Args(), cfg)
 	if err != nil {
 		return exitCode(err, stderr)
 	}

@@ -26,9 +26,11 @@ import (
 	ysyscall "github.com/traefik/yaegi/stdlib/syscall"
 	yunsafe "github.com/traefik/yaegi/stdlib/unsafe"
 
+	"tally/blocks/stop"
 	"tally/runtime/host/symbols"
 	"tally/runtime/internal/runner"
 	"tally/runtime/longrun"
+	"tally/runtime/progress"
 	"tally/runtime/result"
 	"tally/runtime/sim"
 )
@@ -51,6 +53,10 @@ type Config struct {
 	Stdout  io.Writer // the script's own prints (default stdout)
 	// Done receives each finished run before its files are written.
 	Done func(r *result.Run) error
+	// OnPoint and OnProgress, if set, follow the run as it goes (see runner.Options); under
+	// isolate.Run the parent calls them from the child's point and progress messages.
+	OnPoint    func(run *result.Run, total int)
+	OnProgress func(p progress.Point, pr *stop.Progress)
 	// Long are the checkpoint, resume, shard and merge settings (nil: no checkpoint).
 	Long *longrun.Settings
 	// Point, if set, is given the run so far after each point ends (see sim.Options.Point).
@@ -103,7 +109,7 @@ func Run(ctx context.Context, path string, cfg Config) error {
 	runner.Hosted()
 	opts := &runner.Options{Context: ctx, Script: path, Source: src, Mode: "interpreted", Workers: cfg.Workers,
 		Seed: cfg.Seed, SeedSet: cfg.SeedSet, Quiet: cfg.Quiet, Log: cfg.Log, Done: cfg.Done, Long: cfg.Long,
-		Point: cfg.Point, Output: cfg.Output}
+		Point: cfg.Point, Output: cfg.Output, OnPoint: cfg.OnPoint, OnProgress: cfg.OnProgress}
 	var stderr bytes.Buffer
 	stdout := cfg.Stdout
 	if stdout == nil {

@@ -12,7 +12,9 @@ import (
 	"sync"
 	"time"
 
+	"tally/blocks/stop"
 	"tally/runtime/host"
+	"tally/runtime/progress"
 	"tally/runtime/result"
 )
 
@@ -85,7 +87,10 @@ func Serve() int {
 	cfg := j.config()
 	cfg.Log = logf
 	cfg.Stdout = os.Stdout
-	cfg.Point = func(r *result.Run) { c.send(report{Kind: kindPoint, Run: r}) }
+	cfg.OnPoint = func(r *result.Run, total int) { c.send(report{Kind: kindPoint, Run: r, Total: total}) }
+	if j.Follow {
+		cfg.OnProgress = c.progress
+	}
 	cfg.Done = func(r *result.Run) error {
 		c.send(report{Kind: kindDone, Run: r})
 		return c.answer()
@@ -125,6 +130,11 @@ func (c *child) send(r report) {
 	if err := c.enc.Encode(r); err != nil {
 		os.Exit(3) // the parent stopped listening
 	}
+}
+
+// progress sends the running point's prefix (the engine calls it every progress.Every).
+func (c *child) progress(p progress.Point, pr *stop.Progress) {
+	c.send(report{Kind: kindLive, Live: liveOf(p, pr)})
 }
 
 func (c *child) answer() error {

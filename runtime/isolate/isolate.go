@@ -39,6 +39,10 @@ type Config struct {
 	Memory int64         // bytes the run may use (0: DefaultMemory)
 	Grace  time.Duration // after a stop, how long before the child is killed (0: DefaultGrace)
 	Exe    string        // the binary to start (default: this one)
+	// Also, if set, writes more files into the folder of a finished, not interrupted run, after
+	// its outputs and under the folder's lock (tally run -html: index.html); an error fails the
+	// run as a failed write does.
+	Also func(dir string, r *result.Run) error
 }
 
 // Interrupted is the error of a run stopped by its caller (Ctrl-C): it says what was written.
@@ -241,7 +245,22 @@ loop:
 			case kindPos:
 				p.pos = r.Pos
 			case kindPoint:
-				p.partial = r.Run
+				// As in host.Run: Point after each point that ended (not skipped, not
+				// interrupted), OnPoint after every point.
+				if n := len(r.Run.Points); n > 0 && r.Run.Points[n-1].Stop != "interrupted" && r.Run.Points[n-1].Stop != "skipped" {
+					p.partial = r.Run
+					if p.c.Host.Point != nil {
+						p.c.Host.Point(r.Run)
+					}
+				}
+				if p.c.Host.OnPoint != nil {
+					p.c.Host.OnPoint(r.Run, r.Total)
+				}
+			case kindLive:
+				if p.c.Host.OnProgress != nil && r.Live != nil {
+					pr := r.Live.Prefix
+					p.c.Host.OnProgress(r.Live.point(), &pr)
+				}
 			case kindDone:
 				p.got = r.Run
 				if p.c.Host.Done != nil {
@@ -382,6 +401,9 @@ func (p *parent) write(dir string, r *result.Run) error {
 		return err
 	}
 	p.written = true
+	if p.c.Also != nil && !r.Interrupted {
+		return p.c.Also(dir, r)
+	}
 	return nil
 }
 

@@ -10,7 +10,11 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 
+	"tally/blocks/link"
+	"tally/blocks/stop"
+	"tally/runtime/progress"
 	"tally/runtime/result"
 )
 
@@ -139,5 +143,39 @@ func TestReportCarriesEveryValue(t *testing.T) {
 	if !math.IsInf(p.Values[0], -1) || !math.IsNaN(p.Taps[0].Rate) || !math.IsInf(p.Taps[0].High, 1) ||
 		!math.IsInf(tg.High, 1) || !math.IsNaN(tg.Low) || out.Run.Scatter == nil || out.Run.Scatter.Received[0] != complex(1, -1) {
 		t.Errorf("decoded %+v, want the infinities, NaNs and samples sent", out.Run)
+	}
+}
+
+// A progress message carries what the parent's OnProgress reads: the point, the prefix, and
+// the rules its goal and time left come from (progress.Goals, progress.Left), through gob.
+func TestProgressMessage(t *testing.T) {
+	rules := []stop.Rule{stop.Errors(100), stop.Bits(1e7), stop.Time(time.Minute), stop.Errors(20).Tap(link.TapFER)}
+	p := progress.Point{Label: "ebn0_db=4", Index: 2, Total: 6, Rules: rules, Confidence: 0.99, Method: "wilson"}
+	pr := &stop.Progress{Frames: 12, Taps: []string{link.TapBER, link.TapFER},
+		Counts: []link.Tally{{Trials: 6144, Errors: 57, Frames: 12}, {Trials: 12, Errors: 9, Frames: 12}}, Elapsed: 1500 * time.Millisecond}
+	var buf bytes.Buffer
+	if err := gob.NewEncoder(&buf).Encode(report{Kind: kindLive, Live: liveOf(p, pr)}); err != nil {
+		t.Fatal(err)
+	}
+	var out report
+	if err := gob.NewDecoder(&buf).Decode(&out); err != nil {
+		t.Fatal(err)
+	}
+	got, gpr := out.Live.point(), out.Live.Prefix
+	if got.Label != p.Label || got.Index != p.Index || got.Total != p.Total || got.Confidence != p.Confidence || got.Method != p.Method {
+		t.Errorf("point %+v, sent %+v", got, p)
+	}
+	if fmt.Sprint(gpr) != fmt.Sprint(*pr) {
+		t.Errorf("prefix %+v, sent %+v", gpr, *pr)
+	}
+	e0, b0 := progress.Goals(rules)
+	e1, b1 := progress.Goals(got.Rules)
+	l0, ok0 := progress.Left(rules, pr)
+	l1, ok1 := progress.Left(got.Rules, &gpr)
+	if e0 != e1 || b0 != b1 || l0 != l1 || ok0 != ok1 || !ok1 {
+		t.Errorf("goals %d/%d, time left %v %v; sent %d/%d, %v %v", e1, b1, l1, ok1, e0, b0, l0, ok0)
+	}
+	if progress.Live(got, &gpr) != progress.Live(p, pr) {
+		t.Errorf("live line %q, in process %q", progress.Live(got, &gpr), progress.Live(p, pr))
 	}
 }

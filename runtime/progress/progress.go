@@ -128,6 +128,10 @@ func Live(p Point, pr *stop.Progress) string {
 	return b.String()
 }
 
+// Goals are the error count and bit cap the rules ask for on the BER tap (0: none), what a
+// progress bar fills toward.
+func Goals(rules []stop.Rule) (errs, bits int64) { return goals(rules) }
+
 // goals are the error count and bit cap the rules ask for on the BER tap (0: none).
 func goals(rules []stop.Rule) (errs, bits int64) {
 	for _, r := range rules {

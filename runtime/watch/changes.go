@@ -110,7 +110,7 @@ func Changes(prev, next *result.Run) []string {
 		lines = []string{fmt.Sprintf("same counts at all %d points", len(rows))}
 	}
 	if len(ps) > 0 {
-		note := fmt.Sprintf("p: Fisher's exact test on the BER counts, two-sided; CHANGED at p ≤ %g", alpha)
+		note := fmt.Sprintf("p: Fisher's exact test on the BER counts, two-sided; CHANGED at p ≤ %.3g", alpha)
 		if len(ps) > 1 {
 			note += fmt.Sprintf(", Holm-adjusted over %d points", len(ps))
 		}

@@ -46,6 +46,10 @@ type Config struct {
 	// Run makes one run (default host.Run, in this process; tally watch gives isolate.Run, a
 	// child process per run). It must end soon after ctx ends.
 	Run func(ctx context.Context, path string, cfg host.Config) error
+	// Observe, if set, may add hooks to the host configuration of each run of file (to follow
+	// its points as they are committed), on the watcher's goroutine before the run starts; Run
+	// is given the configuration with those hooks (isolate.Run calls them in this process).
+	Observe func(file string, c *host.Config)
 }
 
 // Kind is what happened to a watched file.
@@ -60,6 +64,7 @@ const (
 	Unchanged             // a save left the file as it was last run: not re-run
 	Added                 // a new experiment file appeared in a watched folder
 	Forgotten             // a file was deleted (or stopped being an experiment)
+	Watching              // a file found at the start of the watch, before its first run
 )
 
 // Event is one step of one file.
@@ -68,7 +73,10 @@ type Event struct {
 	File string
 	Err  error       // Failed
 	Run  *result.Run // Finished
-	Took time.Duration
+	// Changes are the what-changed lines printed after a Finished run (see Changes; nil for a
+	// first run with no earlier outputs).
+	Changes []string
+	Took    time.Duration
 }
 
 // missingGrace is how long a vanished file may stay away (an editor's rename dance) before
@@ -142,6 +150,9 @@ func Run(ctx context.Context, paths []string, cfg Config) error {
 	}
 	sort.Strings(names)
 	w.queue = names
+	for _, p := range names {
+		w.emit(Event{Kind: Watching, File: p})
+	}
 	w.printf("watching %d experiment(s); save a file to re-run it, Ctrl-C to stop\n", len(names))
 	w.next()
 	return w.loop(ctx)
@@ -438,6 +449,9 @@ func (w *watcher) next() {
 		got = r
 		return nil
 	}
+	if w.cfg.Observe != nil {
+		w.cfg.Observe(p, &cfg)
+	}
 	w.printf("%s: running\n", p)
 	w.emit(Event{Kind: Started, File: p})
 	go func() {
@@ -459,14 +473,15 @@ func (w *watcher) finish(o outcome) {
 	switch {
 	case o.err == nil && o.run != nil:
 		// A run that completed before its cancel took effect is still a good run.
+		var changes []string
 		if f != nil {
 			prev := f.prev
 			f.prev, f.hash, f.ran = o.run, j.hash, true
 			if !j.superseded {
-				w.report(j.path, prev, o.run, took)
+				changes = w.report(j.path, prev, o.run, took)
 			}
 		}
-		w.emit(Event{Kind: Finished, File: j.path, Run: o.run, Took: took})
+		w.emit(Event{Kind: Finished, File: j.path, Run: o.run, Changes: changes, Took: took})
 	case j.superseded:
 		w.printf("%s: changed during its run; the run was stopped, its outputs dropped\n", j.path)
 		w.emit(Event{Kind: Cancelled, File: j.path, Took: took})
@@ -487,19 +502,21 @@ func (w *watcher) finish(o outcome) {
 	w.next()
 }
 
-func (w *watcher) report(path string, prev, run *result.Run, took time.Duration) {
+// report prints a finished run and what changed since the last, and returns those lines.
+func (w *watcher) report(path string, prev, run *result.Run, took time.Duration) []string {
 	w.printf("%s: %d points in %s → %s%c\n", path, len(run.Points), progress.Duration(took), output.Dir(path), filepath.Separator)
 	if prev == nil {
-		return
+		return nil
 	}
 	lines := Changes(prev, run)
 	if len(lines) == 0 {
-		return
+		return nil
 	}
 	w.printf("  since the last run:\n")
 	for _, l := range lines {
 		w.printf("    %s\n", l)
 	}
+	return lines
 }
 
 func (w *watcher) emit(e Event) {

@@ -9,7 +9,9 @@ import (
 	"os/signal"
 	"runtime"
 
+	"tally/blocks/stop"
 	"tally/runtime/longrun"
+	"tally/runtime/progress"
 	"tally/runtime/result"
 )
 
@@ -30,6 +32,13 @@ type Options struct {
 	Log     io.Writer // progress and summaries (default stderr)
 	// Done receives the finished run before its files are written; an error from it fails the run.
 	Done func(r *result.Run) error
+	// OnPoint, if set, is told of each point as it is committed: run is the run so far (its
+	// header, and its points up to the new one, the last), total the number of points in the
+	// sweep. run is still being filled: read it during the call, keep nothing of it.
+	OnPoint func(run *result.Run, total int)
+	// OnProgress, if set, receives the running point's committed prefix every progress.Every,
+	// whether or not a live line is shown; pr is reused: read it during the call.
+	OnProgress func(p progress.Point, pr *stop.Progress)
 	// Where, set by the host, names the script statement being run ("file:line:col"), so a
 	// mistake found during Run can point at the script.
 	Where func() string

@@ -14,11 +14,15 @@ import (
 // line is erased before the point's finished line is printed.
 func (x *experiment) runEngine(ctx context.Context, pt Point, rules []stop.Rule, s engine.Spec) (engine.Outcome, error) {
 	o := x.opts
+	pp := progress.Point{Label: pt.text(), Index: pt.Index, Total: x.pointCount(),
+		Rules: rules, Confidence: x.Confidence, Method: x.Method}
+	var line *progress.Line
 	if !o.Quiet && isTerminal(o.log()) {
-		line := progress.NewLine(o.log(), progress.Point{Label: pt.text(), Index: pt.Index, Total: x.pointCount(),
-			Rules: rules, Confidence: x.Confidence, Method: x.Method})
+		line = progress.NewLine(o.log(), pp)
 		defer line.Close()
-		s.Observers = append(slices.Clip(s.Observers), progressObserver{line: line})
+	}
+	if line != nil || o.OnProgress != nil {
+		s.Observers = append(slices.Clip(s.Observers), progressObserver{line: line, pt: pp, on: o.OnProgress})
 		s.ProgressEvery = progressEvery
 	}
 	return engine.Run(ctx, s)
@@ -41,10 +45,20 @@ func (x *experiment) pointCount() int {
 	return n
 }
 
-// progressObserver draws the live line from the engine's prefix.
+// progressObserver draws the live line from the engine's prefix (line nil: none shown) and
+// hands the prefix to Options.OnProgress.
 type progressObserver struct {
 	engine.Ignore
 	line *progress.Line
+	pt   progress.Point
+	on   func(progress.Point, *stop.Progress)
 }
 
-func (p progressObserver) Progress(prefix *stop.Progress) { p.line.Update(prefix) }
+func (p progressObserver) Progress(prefix *stop.Progress) {
+	if p.line != nil {
+		p.line.Update(prefix)
+	}
+	if p.on != nil {
+		p.on(p.pt, prefix)
+	}
+}

@@ -139,6 +139,9 @@ func (x *experiment) execute() (*result.Run, error) {
 		if skip, why := x.skip(run, pt); skip {
 			run.Points = append(run.Points, x.skipped(run, pt, why))
 			x.opts.logf("%s  skipped: %s\n", pt.text(), why)
+			if o.OnPoint != nil {
+				o.OnPoint(run, len(points))
+			}
 			continue
 		}
 		rp, err := x.runPoint(ctx, pt, rules, seed, workers)
@@ -150,6 +153,9 @@ func (x *experiment) execute() (*result.Run, error) {
 		x.report(pt, rp)
 		if o.Point != nil && rp.Stop != engine.Interrupted {
 			o.Point(run)
+		}
+		if o.OnPoint != nil {
+			o.OnPoint(run, len(points))
 		}
 		if rp.Stop == engine.Interrupted {
 			run.Interrupted = true
