@@ -32,7 +32,7 @@ type exportData struct {
 	pkgs      map[string][]byte // import path: gcexportdata for it
 }
 
-var exports = sync.OnceValues(func() (*exportData, error) { return parseExportData(symbols.ExportData) })
+var exports = sync.OnceValues(func() (*exportData, error) { return parseExportData(symbols.ExportData()) })
 
 func parseExportData(b []byte) (*exportData, error) {
 	bad := errors.New("host: the embedded export data is damaged: run go generate ./runtime/host/symbols")

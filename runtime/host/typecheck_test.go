@@ -248,7 +248,7 @@ func BenchmarkPrepare(b *testing.B) {
 
 func BenchmarkParseExportData(b *testing.B) {
 	for b.Loop() {
-		if _, err := parseExportData(symbols.ExportData); err != nil {
+		if _, err := parseExportData(symbols.ExportData()); err != nil {
 			b.Fatal(err)
 		}
 	}

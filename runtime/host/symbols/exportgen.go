@@ -13,6 +13,7 @@ package main
 
 import (
 	"bytes"
+	"compress/gzip"
 	"flag"
 	"fmt"
 	"go/token"
@@ -42,7 +43,15 @@ func main() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	if err := os.WriteFile(*out, b, 0o644); err != nil {
+	var packed bytes.Buffer
+	z, _ := gzip.NewWriterLevel(&packed, gzip.BestCompression)
+	if _, err := z.Write(b); err != nil {
+		log.Fatal(err)
+	}
+	if err := z.Close(); err != nil {
+		log.Fatal(err)
+	}
+	if err := os.WriteFile(*out, packed.Bytes(), 0o644); err != nil {
 		log.Fatal(err)
 	}
 }
