@@ -21,7 +21,7 @@ import (
 // envChild marks a process started as a child: its value is the protocol version.
 const envChild = "TALLY_ISOLATED_CHILD"
 
-const protocol = "1"
+const protocol = "2"
 
 // MaxStack is the child's stack limit: endless recursion in a script fails in about a second
 // instead of after a gigabyte (the Go default). Interpreted calls are deep, but 64 MiB is still
