@@ -5,6 +5,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"tally/runtime/lab"
 )
 
 // Text is the report as an engineer reads it, one finding a line.
@@ -175,15 +177,8 @@ func g4(v float64) string { return strconv.FormatFloat(v, 'g', 4, 64) }
 
 func pct(v float64) string { return strconv.FormatFloat(100*v, 'g', 3, 64) + " %" }
 
-// percent writes a confidence as a percentage: 95 %, 99.9 %.
-func percent(c float64) string {
-	p := c * 100
-	s := strconv.FormatFloat(p, 'g', 4, 64)
-	for prec := 5; (s == "100" || s == "0") && prec <= 17; prec++ {
-		s = strconv.FormatFloat(p, 'g', prec, 64)
-	}
-	return s + " %"
-}
+// percent writes a confidence as tally interval does (lab.Percent): 95 %, 99.9 %.
+func percent(c float64) string { return lab.Percent(c) }
 
 func short(h string) string {
 	if len(h) > 16 {

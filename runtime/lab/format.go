@@ -21,9 +21,9 @@ func grouped(n int64) string {
 	return b.String()
 }
 
-// percent writes a confidence as a percentage with four digits, more when those would
+// Percent writes a confidence as a percentage with four digits, more when those would
 // round it to 100 or 0: 95 %, 99.9 %, 63.21 %, 99.99999 %.
-func percent(c float64) string {
+func Percent(c float64) string {
 	p := c * 100
 	s := strconv.FormatFloat(p, 'g', 4, 64)
 	for prec := 5; (s == "100" || s == "0") && prec <= 17; prec++ {

@@ -86,17 +86,17 @@ func Interval(args []string, stdout, stderr io.Writer) int {
 	}
 	switch {
 	case a.Errors == 0 && a.Method != stats.InverseMethod:
-		fprintf(w, "%s interval (%s): 0 to %.3g (no errors: one-sided at %s)\n", percent(a.Confidence), a.Method, a.High, percent(a.Confidence))
+		fprintf(w, "%s interval (%s): 0 to %.3g (no errors: one-sided at %s)\n", Percent(a.Confidence), a.Method, a.High, Percent(a.Confidence))
 	default:
-		fprintf(w, "%s two-sided interval (%s): %.3g to %.3g\n", percent(a.Confidence), a.Method, a.Low, a.High)
+		fprintf(w, "%s two-sided interval (%s): %.3g to %.3g\n", Percent(a.Confidence), a.Method, a.Low, a.High)
 	}
-	fprintf(w, "%s one-sided upper limit: BER ≤ %.3g\n", percent(a.Confidence), a.Upper)
+	fprintf(w, "%s one-sided upper limit: BER ≤ %.3g\n", Percent(a.Confidence), a.Upper)
 	if r.Met != nil {
 		u, s := apart(a.Upper, *spec)
 		if *r.Met {
-			fprintf(w, "Spec BER ≤ %s: met — shown with %s confidence (upper limit %s ≤ %s).\n", s, percent(a.Confidence), u, s)
+			fprintf(w, "Spec BER ≤ %s: met — shown with %s confidence (upper limit %s ≤ %s).\n", s, Percent(a.Confidence), u, s)
 		} else {
-			fprintf(w, "Spec BER ≤ %s: not shown at %s confidence (upper limit %s > %s); count more bits.\n", s, percent(a.Confidence), u, s)
+			fprintf(w, "Spec BER ≤ %s: not shown at %s confidence (upper limit %s > %s); count more bits.\n", s, Percent(a.Confidence), u, s)
 		}
 	}
 	return exitOK

@@ -101,14 +101,14 @@ func printPlan(c *command, r PlanResult, reverse bool) {
 		errs = grouped(r.Errors) + " errors"
 	}
 	if reverse {
-		fprintf(w, "%s in %s bits show BER ≤ %.3g with %s confidence (one-sided).\n", capital(errs), bitsText(r.Bits), r.BER, percent(r.Confidence))
+		fprintf(w, "%s in %s bits show BER ≤ %.3g with %s confidence (one-sided).\n", capital(errs), bitsText(r.Bits), r.BER, Percent(r.Confidence))
 	} else {
 		at := "no errors"
 		if r.Errors > 0 {
 			at = "at most " + errs
 		}
 		fprintf(w, "To show BER ≤ %.3g with %s confidence (one-sided), run %s bits (%.3g/BER) with %s.\n",
-			r.BER, percent(r.Confidence), bitsText(r.Bits), r.Bits*r.BER, at)
+			r.BER, Percent(r.Confidence), bitsText(r.Bits), r.Bits*r.BER, at)
 	}
 	if r.Seconds != nil {
 		if reverse {

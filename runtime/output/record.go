@@ -1,7 +1,10 @@
 package output
 
 import (
+	"encoding/json"
 	"math"
+	"os"
+	"path/filepath"
 
 	"tally/runtime/result"
 )
@@ -49,4 +52,34 @@ func Record(r *result.Run) ([]byte, error) {
 	// never a run lost at its end.
 	b, err := JSON(rec)
 	return append(b, '\n'), err
+}
+
+// ReadRecord reads run.json from a run's outputs folder (tally watch and the live page show an
+// earlier run from it); nil when there is none, it does not parse, or it holds no point. A
+// theory value run.json writes as null (none exists) reads back as NaN, not 0; an open target
+// end reads back as ∓Inf (result.Target).
+func ReadRecord(dir string) *result.Run {
+	b, err := os.ReadFile(filepath.Join(dir, "run.json"))
+	if err != nil {
+		return nil
+	}
+	var r result.Run
+	if json.Unmarshal(b, &r) != nil || len(r.Points) == 0 {
+		return nil
+	}
+	var nulls struct {
+		Points []struct {
+			Theory []*float64 `json:"theory"`
+		} `json:"points"`
+	}
+	if json.Unmarshal(b, &nulls) == nil && len(nulls.Points) == len(r.Points) {
+		for i, p := range nulls.Points {
+			for k, t := range p.Theory {
+				if t == nil && k < len(r.Points[i].Theory) {
+					r.Points[i].Theory[k] = math.NaN()
+				}
+			}
+		}
+	}
+	return &r
 }

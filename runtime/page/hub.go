@@ -10,10 +10,8 @@
 package page
 
 import (
-	"encoding/json"
 	"errors"
 	"math"
-	"os"
 	"path/filepath"
 	"sort"
 	"strconv"
@@ -377,29 +375,4 @@ func copyPoint(p result.Point) result.Point {
 }
 
 // onDisk reads the run record beside a script (the outputs of an earlier run); nil if none.
-func onDisk(script string) *result.Run {
-	b, err := os.ReadFile(filepath.Join(output.Dir(script), "run.json"))
-	if err != nil {
-		return nil
-	}
-	var r result.Run
-	if json.Unmarshal(b, &r) != nil || len(r.Points) == 0 {
-		return nil
-	}
-	// run.json writes a theory value that does not exist as null, which reads back as 0.
-	var nulls struct {
-		Points []struct {
-			Theory []*float64 `json:"theory"`
-		} `json:"points"`
-	}
-	if json.Unmarshal(b, &nulls) == nil && len(nulls.Points) == len(r.Points) {
-		for i, p := range nulls.Points {
-			for k, t := range p.Theory {
-				if t == nil && k < len(r.Points[i].Theory) {
-					r.Points[i].Theory[k] = math.NaN()
-				}
-			}
-		}
-	}
-	return &r
-}
+func onDisk(script string) *result.Run { return output.ReadRecord(output.Dir(script)) }

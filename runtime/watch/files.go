@@ -3,7 +3,6 @@ package watch
 import (
 	"bufio"
 	"bytes"
-	"encoding/json"
 	"go/build/constraint"
 	"os"
 	"path/filepath"
@@ -62,14 +61,4 @@ func experiments(dir string) ([]string, error) {
 
 // lastRun reads the run record beside a script, so the first run under watch can say what
 // changed since the outputs on disk. Nil when there is none or it does not parse.
-func lastRun(script string) *result.Run {
-	b, err := os.ReadFile(filepath.Join(output.Dir(script), "run.json"))
-	if err != nil {
-		return nil
-	}
-	var r result.Run
-	if json.Unmarshal(b, &r) != nil || len(r.Points) == 0 {
-		return nil
-	}
-	return &r
-}
+func lastRun(script string) *result.Run { return output.ReadRecord(output.Dir(script)) }
