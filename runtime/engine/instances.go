@@ -291,20 +291,17 @@ func (c *checker) interleaved() (trace, trace) {
 	gb := gates(c.b, func(k int) bool { return wait(toB) }, func(k int) { toA <- struct{}{} })
 	ga.last = func() bool { return wait(toA) }
 	ga.onAbort, gb.onAbort = abort, abort
-	defer ga.restore()
-	defer gb.restore()
-	var x, y trace
-	var wg sync.WaitGroup
-	wg.Add(2)
-	go func() { defer wg.Done(); x = c.frame(c.a, 0, ga) }()
-	go func() { defer wg.Done(); y = c.frame(c.b, 1, gb) }()
-	wg.Wait()
-	return x, y
+	return c.both(ga, gb)
 }
 
 // concurrent computes frame 0 on a and frame 1 on b at the same time, unordered.
 func (c *checker) concurrent() (trace, trace) {
 	ga, gb := gates(c.a, nil, nil), gates(c.b, nil, nil)
+	return c.both(ga, gb)
+}
+
+// both computes frame 0 on a and frame 1 on b in two goroutines, each through its gates.
+func (c *checker) both(ga, gb *gated) (trace, trace) {
 	defer ga.restore()
 	defer gb.restore()
 	var x, y trace
