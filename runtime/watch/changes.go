@@ -17,7 +17,11 @@ import (
 //
 // Two runs with the same seed share their random streams, so unchanged points come out with
 // identical counts and changed ones are correlated; the test assumes independent samples and
-// is then conservative. Errors that come in bursts (behind a decoder) make it too eager.
+// is then conservative. Errors shown to come in bursts (a tap whose interval was widened,
+// "+clustered") are tested on their effective counts, errors and bits divided by the observed
+// dispersion (the design effect): the adjustment of Rao and Scott, "The analysis of categorical
+// data from complex sample surveys", JASA 76, 1981, and the statistic the intervals use. Without
+// it a burst of decoder errors reads as hundreds of independent ones and every point is CHANGED.
 func Changes(prev, next *result.Run) []string {
 	type row struct {
 		label string
@@ -51,7 +55,9 @@ func Changes(prev, next *result.Run) []string {
 		// Weighted estimates (importance sampling, semi-analytic) are not counts: no Fisher test.
 		if r.old != nil && r.old.Trials > 0 && r.new.Trials > 0 && !(r.old.Errors == r.new.Errors && r.old.Trials == r.new.Trials) &&
 			!r.old.Weighted() && !r.new.Weighted() {
-			if res, err := compare.Proportions(r.old.Errors, r.old.Trials, r.new.Errors, r.new.Trials); err == nil {
+			k1, n1 := effective(r.old)
+			k2, n2 := effective(r.new)
+			if res, err := compare.Proportions(k1, n1, k2, n2); err == nil {
 				r.p, r.test = res.P, true
 			}
 		}
@@ -94,9 +100,9 @@ func Changes(prev, next *result.Run) []string {
 				s += fmt.Sprintf(" (×%.3g)", r.new.Rate/r.old.Rate)
 			}
 			if adjusted[j] <= alpha {
-				s += fmt.Sprintf("  CHANGED, p = %.2g", adjusted[j])
+				s += "  CHANGED, " + pText(adjusted[j])
 			} else {
-				s += fmt.Sprintf("  within chance, p = %.2g", adjusted[j])
+				s += "  within chance, " + pText(adjusted[j])
 			}
 			j++
 		}
@@ -110,7 +116,7 @@ func Changes(prev, next *result.Run) []string {
 		lines = []string{fmt.Sprintf("same counts at all %d points", len(rows))}
 	}
 	if len(ps) > 0 {
-		note := fmt.Sprintf("p: Fisher's exact test on the BER counts, two-sided; CHANGED at p ≤ %.3g", alpha)
+		note := fmt.Sprintf("p: Fisher's exact test on the BER counts, two-sided (bursty points on their effective counts, Rao–Scott); CHANGED at p ≤ %.3g", alpha)
 		if len(ps) > 1 {
 			note += fmt.Sprintf(", Holm-adjusted over %d points", len(ps))
 		}
@@ -169,6 +175,24 @@ func targetChanges(prev, next *result.Run) []string {
 }
 
 // signed is d to two decimals with its sign, and "0.00" when it rounds to zero (not −0.00).
+// effective are a tap's errors and bits for a test that assumes independent bits: divided by
+// the dispersion when the burst test widened its interval (Kish's effective sample size).
+func effective(t *result.Tap) (errors, bits int64) {
+	d := t.Dispersion
+	if !strings.Contains(t.Method, "+clustered") || !(d > 1) {
+		return t.Errors, t.Trials
+	}
+	return int64(math.Round(float64(t.Errors) / d)), max(1, int64(math.Round(float64(t.Trials)/d)))
+}
+
+// pText prints a p-value a person can read: "p = 0.003", "p = 2.3e-58", "p < 1e-300".
+func pText(p float64) string {
+	if p < 1e-300 {
+		return "p < 1e-300"
+	}
+	return fmt.Sprintf("p = %.2g", p)
+}
+
 func signed(d float64) string {
 	s := fmt.Sprintf("%.2f", math.Abs(d))
 	if s == "0.00" {

@@ -68,3 +68,38 @@ func TestSignedShift(t *testing.T) {
 		}
 	}
 }
+
+// Errors shown to come in bursts are compared on their effective counts (Rao and Scott,
+// JASA 76, 1981: counts divided by the design effect, here the observed dispersion). 1000
+// against 1200 errors in 10⁶ bits is a real move for independent bits (p ≈ 1e-5), but not
+// when bursts of about 20 make them 50 against 60 independent events.
+func TestChangesBurstyOnEffectiveCounts(t *testing.T) {
+	bursty := func(k int64) *result.Run {
+		r := counts(1, k)
+		tp := &r.Points[0].Taps[0]
+		tp.Dispersion, tp.Method = 20, "clopper-pearson+clustered"
+		return r
+	}
+	raw, _ := compare.Proportions(1000, 1e6, 1200, 1e6)
+	if raw.P > 1e-3 {
+		t.Fatalf("raw p %.2g: the case no longer shows anything", raw.P)
+	}
+	eff, _ := compare.Proportions(50, 50000, 60, 50000)
+	got := strings.Join(Changes(bursty(1000), bursty(1200)), "\n")
+	if want := fmt.Sprintf("within chance, p = %.2g", eff.P); !strings.Contains(got, want) {
+		t.Errorf("got\n%s\nwant %q", got, want)
+	}
+	// The same counts, not shown bursty, are a change.
+	if got := strings.Join(Changes(counts(1, 1000), counts(1, 1200)), "\n"); !strings.Contains(got, "CHANGED") {
+		t.Errorf("independent counts not flagged:\n%s", got)
+	}
+}
+
+// A p-value below what a float64 carries prints as a bound, not 0.
+func TestPText(t *testing.T) {
+	for p, want := range map[float64]string{0: "p < 1e-300", 7.2e-310: "p < 1e-300", 2.3e-58: "p = 2.3e-58", 0.05: "p = 0.05"} {
+		if got := pText(p); got != want {
+			t.Errorf("pText(%g) = %q, want %q", p, got, want)
+		}
+	}
+}
