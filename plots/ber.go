@@ -350,10 +350,13 @@ func (grid) Plot(c draw.Canvas, p *plot.Plot) {
 func caption(r *result.Run) string {
 	var methods []string
 	seen := map[string]bool{}
+	widened := false
 	ber := r.TapIndex(link.TapBER)
 	for _, p := range r.Points {
 		if ber >= 0 && ber < len(p.Taps) {
-			if m := p.Taps[ber].Method; m != "" && !seen[m] {
+			m, clustered := strings.CutSuffix(p.Taps[ber].Method, "+clustered")
+			widened = widened || clustered
+			if m != "" && !seen[m] {
 				seen[m] = true
 				methods = append(methods, m)
 			}
@@ -362,12 +365,16 @@ func caption(r *result.Run) string {
 	if len(methods) == 0 {
 		methods = append(methods, r.Method)
 	}
+	bursts := ""
+	if widened {
+		bursts = ", widened where errors came in bursts"
+	}
 	var parts []string
 	if r.Script != "" {
 		parts = append(parts, r.Script)
 	}
 	parts = append(parts, fmt.Sprintf("seed %d", r.Seed),
-		fmt.Sprintf("%s intervals at %g %%", strings.Join(methods, " / "), 100*r.Confidence),
+		fmt.Sprintf("%s intervals at %g %%%s", strings.Join(methods, " / "), 100*r.Confidence, bursts),
 		fmt.Sprintf("%d points", len(r.Points)))
 	if r.Interrupted {
 		parts = append(parts, "interrupted: last point incomplete")
