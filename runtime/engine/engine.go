@@ -71,10 +71,16 @@ func (s Spec) name() string {
 // least Min of its own frames. The merge then judges the real prefix; should the estimate
 // have erred, the merge names the points that need more frames and a further round extends
 // them (Min).
+//
+// Shards that share a folder tell each other their counts as they go (Seen): the estimate
+// then counts what the others have told exactly and estimates only the rest, so the shards
+// stop near where one machine would. Seen may be replaced between commits (by an Observer,
+// which runs on the committing goroutine).
 type Shard struct {
 	Index, Of int     // this shard computes frames f with f % Of == Index
 	Min       int64   // frames of this shard to compute at least
 	Z         float64 // margin of the estimate in standard deviations (0: Margin(Of))
+	Seen      []Seen  // what the other shards have told of the point (none: Estimate alone)
 }
 
 // Miss is the chance the shard estimates aim at of a point falling short in the merge: a point
@@ -96,11 +102,17 @@ func Margin(of int) float64 {
 // 1 for independent errors, large when they come in bursts): the total Of·e has variance about
 // Of·(Of−1)·e·D — the others' count's own (Of−1)·e·D plus the estimate's (Of−1)²·e·D. Bursty
 // errors thus make a shard run further, by as much as its own frames show the bursts to be.
+//
+// When the shard sees what others have told (Seen), the estimate is estimateSeen's.
 func (s Shard) Estimate(own, into *stop.Progress) {
 	n := float64(s.Of)
 	z := s.Z
 	if z == 0 {
 		z = Margin(s.Of)
+	}
+	if len(s.Seen) > 0 && s.Of > 1 {
+		s.estimateSeen(own, into, z)
+		return
 	}
 	into.Taps = own.Taps
 	into.Frames = own.Frames * int64(s.Of)

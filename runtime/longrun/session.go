@@ -37,6 +37,7 @@ type Session struct {
 	old   *Checkpoint // the checkpoint resumed from
 	sh    *ShardFile  // sharding: what is saved
 	plan  *Plan       // the plan a short merge left, for -extend
+	share *sharing    // sharding: the progress told to and read from the other shards
 	short []ShortPoint
 	used  int64 // a merge: the bits of the BER tap its points counted
 }
@@ -90,7 +91,9 @@ func Open(set *Settings, j Job) (*Session, error) {
 		}
 	case set.Shard != nil:
 		s.mode = sharding
-		err = s.openShard()
+		if err = s.openShard(); err == nil {
+			s.share = newSharing(s)
+		}
 	default:
 		s.mode = checkpointing
 		err = s.openCheckpoint()
@@ -283,23 +286,43 @@ func (s *Session) checkpoint(pt Point, spec engine.Spec, run Runner) (engine.Out
 	return out, nil
 }
 
-// sharder keeps a shard's committed frames in the shard file as the engine commits.
+// sharder keeps a shard's committed frames in the shard file as the engine commits, and
+// tells its counts to the shards beside it and reads theirs into the shard's estimate
+// (engine.Shard.Seen), at most every sharing interval.
 type sharder struct {
 	engine.Ignore
 	s      *Session
+	pt     Point
 	sp     *ShardPoint
+	shard  *engine.Shard
+	sum    []link.Tally // the point's counts in this shard so far
 	before time.Duration
 	start  time.Time
 }
 
-func (h *sharder) Started(taps []string) { h.sp.Taps = taps }
+func (h *sharder) Started(taps []string) {
+	h.sp.Taps = taps
+	h.sum = h.sp.Sum()
+	h.tell()
+}
 
 func (h *sharder) Committed(f int64, c []link.Tally) {
 	h.sp.Add(c)
+	for i := range c {
+		h.sum[i].Add(c[i])
+	}
 	if h.s.due() {
 		h.sp.Seconds = (h.before + time.Since(h.start)).Seconds()
 		h.s.save(KindShard, h.s.sh)
 	}
+	if h.s.share.due() {
+		h.tell()
+	}
+}
+
+// tell tells this shard's counts of the point and takes in what the others told.
+func (h *sharder) tell() {
+	h.shard.Seen = h.s.share.tell(h.pt, h.sp.Taps, h.sp.Frames, h.sum)
 }
 
 func (s *Session) shard(pt Point, spec engine.Spec, run Runner) (engine.Outcome, error) {
@@ -322,7 +345,8 @@ func (s *Session) shard(pt Point, spec engine.Spec, run Runner) (engine.Outcome,
 		need = MinFrames(s.plan.Target(pt.Index), part)
 	}
 	spec.Shard = &engine.Shard{Index: part.Index, Of: part.Of, Min: need}
-	spec.Observers = append(slices.Clip(spec.Observers), &sharder{s: s, sp: sp, before: before, start: time.Now()})
+	h := &sharder{s: s, pt: pt, sp: sp, shard: spec.Shard, before: before, start: time.Now()}
+	spec.Observers = append(slices.Clip(spec.Observers), h)
 	out, err := run(spec)
 	if err != nil {
 		return out, err
@@ -332,6 +356,7 @@ func (s *Session) shard(pt Point, spec engine.Spec, run Runner) (engine.Outcome,
 	}
 	sp.Done, sp.Stop, sp.Seconds = out.Stop != engine.Interrupted, out.Stop, out.Elapsed.Seconds()
 	s.save(KindShard, s.sh)
+	h.tell() // the point's last counts, for the shards still on it
 	return out, nil
 }
 
