@@ -357,6 +357,10 @@ func (s *Session) shard(pt Point, spec engine.Spec, run Runner) (engine.Outcome,
 	sp.Done, sp.Stop, sp.Seconds = out.Stop != engine.Interrupted, out.Stop, out.Elapsed.Seconds()
 	s.save(KindShard, s.sh)
 	h.tell() // the point's last counts, for the shards still on it
+	// The rule was met on an estimate, not on these counts (every Of-th frame, possibly past
+	// the error target): no interval of that rule holds on them, so none is claimed. A
+	// shard's outputs are its shard file; the merge judges the rules on the real prefix.
+	out.Rule = nil
 	return out, nil
 }
 
