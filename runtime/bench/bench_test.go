@@ -108,7 +108,7 @@ func TestReport(t *testing.T) {
 	}
 	out := b.String()
 	for _, want := range []string{"bpsk-awgn   script", "qam16-awgn  reference", "script/reference=", "script/compiled=",
-		"efficiency", "memory      bpsk-awgn"} {
+		"efficiency", "CPU efficiency", "memory      bpsk-awgn"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("report lacks %q:\n%s", want, out)
 		}

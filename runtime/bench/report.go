@@ -178,7 +178,9 @@ func loadAverage() string {
 }
 
 // scaling runs the script and compiled paths on workers workers and reports them against
-// their one-worker figures, by wall clock.
+// their one-worker figures: the speed-up and parallel efficiency (speed-up / workers) by wall
+// clock, and the CPU efficiency, bits per CPU second against one worker's (the speed-up an
+// idle machine with that many free cores would give is at most workers times it).
 func scaling(ctx context.Context, o Options, workers int, one map[string]Result, w io.Writer) error {
 	best := map[string]Result{}
 	for round := 0; round < o.Rounds; round++ {
@@ -206,8 +208,14 @@ func scaling(ctx context.Context, o Options, workers int, one map[string]Result,
 			if r.Errors != r1.Errors || r.Bits != r1.Bits {
 				return fmt.Errorf("bench: %s on %d workers counted %d errors in %d bits, on one %d in %d", k, workers, r.Errors, r.Bits, r1.Errors, r1.Bits)
 			}
-			fmt.Fprintf(w, "%-11s %-9s    Mbit/s=%-7.1f one worker %.1f: speed-up %.2f, efficiency %.0f %%\n",
+			fmt.Fprintf(w, "%-11s %-9s    Mbit/s=%-7.1f one worker %.1f: speed-up %.2f, efficiency %.0f %%",
 				c.Name, path, r.WallRate(), r1.WallRate(), r.WallRate()/r1.WallRate(), 100*r.WallRate()/r1.WallRate()/float64(workers))
+			if r.CPU > 0 && r1.CPU > 0 {
+				// Bits per CPU second against one worker's: what the workers' coordination
+				// costs, which a busy machine's wall clock hides.
+				fmt.Fprintf(w, "; CPU efficiency %.0f %%", 100*r.Rate()/r1.Rate())
+			}
+			fmt.Fprintln(w)
 		}
 	}
 	return nil

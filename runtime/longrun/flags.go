@@ -14,7 +14,7 @@ func Flags(fs *flag.FlagSet) func() (*Settings, error) {
 	var shard string
 	fs.BoolVar(&s.Resume, "resume", false, "continue from the checkpoint in the outputs folder (or, with -shard, the shard file); starts afresh if there is none")
 	fs.BoolVar(&s.Restart, "restart", false, "discard the checkpoint (or shard file) and start afresh")
-	fs.DurationVar(&s.Every, "checkpoint", DefaultEvery, "how often to save the checkpoint (wall time); it is also saved at each point's end")
+	fs.DurationVar(&s.Every, "checkpoint", DefaultEvery, "how often to save the checkpoint (wall time); it is also saved at each point's end. Shards in one folder tell each other their counts this often, or every second if that is sooner")
 	fs.StringVar(&shard, "shard", "", "run only shard `i/N` of every point's frames (frame f when f mod N = i), writing a shard file for tally merge; env reads it from the batch system ("+EnvShard+", SLURM_ARRAY_TASK_ID, JOB_COMPLETION_INDEX)")
 	fs.BoolVar(&s.Extend, "extend", false, "with -shard: continue the existing shard file, as far as the last merge asked")
 	return func() (*Settings, error) {
