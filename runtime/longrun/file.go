@@ -1,7 +1,9 @@
 // Package longrun holds what lets a run outlive its process and its machine: the checkpoint a
 // run keeps of its committed counts (resume after a kill), the shard file of a run that
-// computes only its share of every point's frames, the merge of shard files into the frame
-// sequence of a single run, and the plan a short merge leaves for a further round.
+// computes only its share of every point's frames, the progress file in which shards side by
+// side tell each other their counts (so each stops near where one machine would), the merge of
+// shard files into the frame sequence of a single run, and the plan a short merge leaves for a
+// further round.
 //
 // Every file is a one-line header and a JSON body:
 //
