@@ -80,7 +80,7 @@ type Shard struct {
 	Index, Of int     // this shard computes frames f with f % Of == Index
 	Min       int64   // frames of this shard to compute at least
 	Z         float64 // margin of the estimate in standard deviations (0: Margin(Of))
-	Seen      []Seen  // what the other shards have told of the point (none: Estimate alone)
+	Seen      []Seen  // what the other shards have told of the point, one per shard (none: Estimate alone)
 }
 
 // Miss is the chance the shard estimates aim at of a point falling short in the merge: a point

@@ -95,33 +95,27 @@ func (s Shard) estimateSeen(own, into *stop.Progress, z float64) {
 	if len(into.Counts) != len(own.Counts) {
 		into.Counts = make([]link.Tally, len(own.Counts))
 	}
-	seen := make([]*Seen, s.Of)
-	for i := range s.Seen {
-		if j := s.Seen[i].Index; j >= 0 && j < s.Of && j != s.Index {
-			seen[j] = &s.Seen[i]
-		}
-	}
+	// The other shards' frames in the prefix: k+1 of each shard before this one, k of each after.
+	others := int64(s.Of-1)*k + int64(s.Index)
 	for t, c := range own.Counts {
 		known, pool := c, c
-		var unknown int64
-		for j := 0; j < s.Of; j++ {
-			if j == s.Index {
+		unknown := others
+		for q := range s.Seen {
+			sn := &s.Seen[q]
+			j := sn.Index
+			if j < 0 || j >= s.Of || j == s.Index {
 				continue
 			}
 			m := k
 			if j < s.Index {
 				m = k + 1
 			}
-			if seen[j] == nil {
-				unknown += m
-				continue
-			}
-			a, counts := seen[j].at(m)
-			unknown += m - a
+			a, counts := sn.at(m)
+			unknown -= a
 			if t < len(counts) {
 				addSum(&known, counts[t])
 			}
-			if _, counts := seen[j].last(); t < len(counts) {
+			if _, counts := sn.last(); t < len(counts) {
 				addSum(&pool, counts[t])
 			}
 		}

@@ -2,6 +2,7 @@ package longrun
 
 import (
 	"fmt"
+	"os"
 	"path/filepath"
 	"slices"
 	"time"
@@ -74,17 +75,30 @@ func (p *ProgressPoint) seen(index int, values []float64, taps []string) (engine
 // sharing is a shard's side of the progress exchange: its own steps of every point it ran in
 // this process, told in its progress file, and the other shards' files read back.
 type sharing struct {
-	s     *Session
-	own   map[int]*ProgressPoint // by point index
-	steps map[int]*engine.Seen
-	next  time.Time
-	warn  bool
+	s      *Session
+	own    map[int]*ProgressPoint // by point index
+	steps  map[int]*engine.Seen
+	recent []int // the points told last, the latest last
+	files  map[int]readFile
+	next   time.Time
+	warn   bool
+}
+
+// Recent is how many of the points a shard told last keep all their steps in its progress
+// file; older ones keep their last step only, so the file stays small over a long sweep.
+const Recent = 4
+
+// readFile is another shard's progress file as last read, with the size and time it had then.
+type readFile struct {
+	size int64
+	mod  time.Time
+	f    *ShardProgress
 }
 
 // newSharing starts the exchange of a shard's session; what an earlier run of the same shard
 // told is kept until its points are run again.
 func newSharing(s *Session) *sharing {
-	h := &sharing{s: s, own: map[int]*ProgressPoint{}, steps: map[int]*engine.Seen{}}
+	h := &sharing{s: s, own: map[int]*ProgressPoint{}, steps: map[int]*engine.Seen{}, files: map[int]readFile{}}
 	if f, ok := h.load(*s.set.Shard); ok {
 		for k := range f.Points {
 			h.own[f.Points[k].Index] = &f.Points[k]
@@ -93,16 +107,26 @@ func newSharing(s *Session) *sharing {
 	return h
 }
 
-// load reads shard part's progress file, if it is of this script, seed and split.
+// load reads shard part's progress file, if it is of this script, seed and split. A file
+// unchanged since the last read (same size and time) is not read again.
 func (h *sharing) load(part Part) (*ShardProgress, bool) {
+	path := ProgressPath(h.s.job.Dir, part)
+	st, err := os.Stat(path)
+	if err != nil {
+		return nil, false
+	}
+	if r, ok := h.files[part.Index]; ok && r.size == st.Size() && r.mod.Equal(st.ModTime()) {
+		return r.f, r.f != nil
+	}
 	var f ShardProgress
-	if err := Load(ProgressPath(h.s.job.Dir, part), KindProgress, &f); err != nil {
-		return nil, false
+	ok := Load(path, KindProgress, &f) == nil &&
+		f.SHA256 == h.s.job.SHA256 && f.Seed == h.s.job.Seed && f.Index == part.Index && f.Of == part.Of
+	r := readFile{size: st.Size(), mod: st.ModTime()}
+	if ok {
+		r.f = &f
 	}
-	if f.SHA256 != h.s.job.SHA256 || f.Seed != h.s.job.Seed || f.Index != part.Index || f.Of != part.Of {
-		return nil, false
-	}
-	return &f, true
+	h.files[part.Index] = r
+	return r.f, ok
 }
 
 // interval is how often the shard tells and reads.
@@ -127,6 +151,14 @@ func (h *sharing) tell(pt Point, taps []string, frames int64, counts []link.Tall
 	st.Record(frames, counts)
 	pp := progressPoint(pt, taps, st)
 	h.own[pt.Index] = &pp
+	h.recent = append(slices.DeleteFunc(h.recent, func(i int) bool { return i == pt.Index }), pt.Index)
+	if len(h.recent) > Recent {
+		if old := h.own[h.recent[0]]; old != nil && len(old.Frames) > 1 {
+			n := len(old.Frames)
+			old.Frames, old.Counts = old.Frames[n-1:], old.Counts[n-1:]
+		}
+		h.recent = h.recent[1:]
+	}
 	part := *h.s.set.Shard
 	f := &ShardProgress{SHA256: h.s.job.SHA256, Seed: h.s.job.Seed, Index: part.Index, Of: part.Of}
 	for _, p := range h.own {

@@ -68,3 +68,30 @@ func TestProgressTold(t *testing.T) {
 		t.Errorf("a folder with only progress files: %v, want no shard files", err)
 	}
 }
+
+// Over a long sweep the progress file stays small: the Recent points told last keep all their
+// steps, older ones their last step only (still a fact of the point).
+func TestProgressCompact(t *testing.T) {
+	dir := t.TempDir()
+	taps := []string{"ber"}
+	a := shardSession(t, dir, 0, 2, 1)
+	for p := 0; p < Recent+2; p++ {
+		pt := Point{Index: p, Values: []float64{float64(p)}}
+		for f := int64(1); f <= 3; f++ {
+			a.share.tell(pt, taps, f, []link.Tally{{Trials: 64 * f, Errors: f, Frames: f, Squares: f}})
+		}
+	}
+	f, ok := a.share.load(Part{Index: 0, Of: 2})
+	if !ok || len(f.Points) != Recent+2 {
+		t.Fatalf("progress file: %v, %+v", ok, f)
+	}
+	for _, p := range f.Points {
+		want := 3
+		if p.Index < 2 {
+			want = 1
+		}
+		if len(p.Frames) != want || p.Frames[len(p.Frames)-1] != 3 || p.Counts[len(p.Counts)-1][0][1] != 3 {
+			t.Errorf("point %d keeps steps %v (%v), want %d ending at 3 frames, 3 errors", p.Index, p.Frames, p.Counts, want)
+		}
+	}
+}
