@@ -1,9 +1,11 @@
 package plots
 
 import (
+	"cmp"
 	"fmt"
 	"image/color"
 	"math"
+	"slices"
 	"strings"
 
 	"gonum.org/v1/plot"
@@ -85,7 +87,7 @@ func levelLines(r *result.Run, cs []curve, taps []string, fer bool) levels {
 		if len(cs) > 1 {
 			cl = colour(ci)
 		}
-		l.cross = append(l.cross, crossing{x: t.X, low: t.Low, high: t.High, text: crossText(t.X, t.Unit), cl: cl, below: len(l.cross)%2 == 1})
+		l.cross = append(l.cross, crossing{x: t.X, low: t.Low, high: t.High, text: crossText(t.X, t.Unit), cl: cl})
 	}
 	for _, s := range r.Specs {
 		if on(s.Tap) && s.Rate > 0 {
@@ -94,6 +96,13 @@ func levelLines(r *result.Run, cs []curve, taps []string, fer bool) levels {
 	}
 	if len(ls) == 0 {
 		return nil
+	}
+	// Neighbours along the axis put their labels on opposite sides of the line.
+	for _, l := range ls {
+		slices.SortStableFunc(l.cross, func(a, b crossing) int { return cmp.Compare(a.x, b.x) })
+		for i := range l.cross {
+			l.cross[i].below = i%2 == 1
+		}
 	}
 	return ls
 }
