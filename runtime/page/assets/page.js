@@ -334,11 +334,17 @@
       var cls = p.stop === "skipped" ? "skip" : i === last ? "new" : "";
       h.push("<tr" + (cls ? ' class="' + cls + '"' : "") + ">");
       run.params.forEach(function (n, k) { h.push('<td class="p">' + esc(valueText(run, p, k)) + "</td>"); });
-      h.push("<td>" + si(t.trials) + "</td><td>" + t.errors + "</td><td>" + rate(t.rate) + "</td><td>" + rate(t.ci_low) + " – " + rate(t.ci_high) + "</td>");
-      others.forEach(function (n) {
-        var o = tapOf(p, n);
-        h.push(o ? '<td title="' + o.errors + " of " + o.trials + '">' + rate(o.rate) + "</td>" : "<td>–</td>");
-      });
+      if (p.stop === "skipped") {
+        // Nothing was counted: empty cells, not a measured 0 of 0 with the interval [0, 1].
+        h.push("<td></td><td></td><td></td><td></td>");
+        others.forEach(function () { h.push("<td></td>"); });
+      } else {
+        h.push("<td>" + si(t.trials) + "</td><td>" + t.errors + "</td><td>" + rate(t.rate) + "</td><td>" + rate(t.ci_low) + " – " + rate(t.ci_high) + "</td>");
+        others.forEach(function (n) {
+          var o = tapOf(p, n);
+          h.push(o ? '<td title="' + o.errors + " of " + o.trials + '">' + rate(o.rate) + "</td>" : "<td>–</td>");
+        });
+      }
       (run.theory || []).forEach(function (n, k) { h.push("<td>" + rate((p.theory || [])[k]) + "</td>"); });
       h.push('<td class="stop">' + esc(p.stop || "") + (p.note ? " · " + esc(p.note) : "") + "</td><td>" + seconds(p.wall_seconds) + "</td></tr>");
     });
