@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"image/color"
 	"math"
+	"slices"
 	"strings"
 
 	"gonum.org/v1/plot"
@@ -17,6 +18,7 @@ import (
 // curve is the points of one value of the parameters after the first, in sweep order.
 type curve struct {
 	label  string
+	key    string // as a target names its curve: "modem=QPSK code=1/2"
 	points []result.Point
 }
 
@@ -25,16 +27,17 @@ func curves(r *result.Run) []curve {
 	var cs []curve
 	index := map[string]int{}
 	for _, p := range r.Points {
-		var parts []string
+		var parts, names []string
 		for i := 1; i < len(r.Params) && i < len(p.Values); i++ {
 			parts = append(parts, ValueLabel(r.Params[i], r.Value(p, i)))
+			names = append(names, r.Params[i]+"="+r.Value(p, i))
 		}
 		key := strings.Join(parts, ", ")
 		k, ok := index[key]
 		if !ok {
 			k = len(cs)
 			index[key] = k
-			cs = append(cs, curve{label: key})
+			cs = append(cs, curve{label: key, key: strings.Join(names, " ")})
 		}
 		cs[k].points = append(cs[k].points, p)
 	}
@@ -63,17 +66,25 @@ func showFrames(r *result.Run) bool {
 	return false
 }
 
-// BER draws a run's error rates against its first swept parameter. It returns nil when no
-// point counted anything (nothing to draw).
+// BER draws a run's error rates against its first swept parameter: the taps the run shows
+// (result.Run.ShownTaps: the one its stop rules and targets judge, or the script's choice) in
+// the left panel, the frame error rate in a panel of its own, the targets as lines with each
+// curve's crossing marked. It returns nil when no point counted anything (nothing to draw).
 func BER(r *result.Run) (*Figure, error) {
-	ber := r.TapIndex(link.TapBER)
-	if ber < 0 || len(r.Params) == 0 {
+	if len(r.Params) == 0 {
+		return nil, nil
+	}
+	taps := leftTaps(r)
+	main := r.TapIndex(taps[0])
+	if main < 0 {
 		return nil, nil
 	}
 	counted := false
 	for _, p := range r.Points {
-		if ber < len(p.Taps) && p.Taps[ber].Trials > 0 {
-			counted = true
+		for _, name := range taps {
+			if k := r.TapIndex(name); k >= 0 && k < len(p.Taps) && p.Taps[k].Trials > 0 {
+				counted = true
+			}
 		}
 	}
 	if !counted {
@@ -81,42 +92,38 @@ func BER(r *result.Run) (*Figure, error) {
 	}
 	cs := curves(r)
 	many := len(cs) > 1
-	pre := r.TapIndex(link.TapPre)
 	frames := showFrames(r)
 	legend := &Legend{}
 	confidence := fmt.Sprintf("%g %%", 100*r.Confidence)
 
-	left := panel(r, "bit error rate")
+	left := panel(r, leftLabel(taps))
 	var right *plot.Plot
 	if frames {
 		right = panel(r, "frame error rate")
 	}
 	var ys, fys []float64 // values that set the y ranges
+	boundSty := func(cl color.Color) draw.GlyphStyle {
+		return draw.GlyphStyle{Color: cl, Radius: vg.Points(3), Shape: downTriangle{}}
+	}
 	for ci, c := range cs {
 		cl := colour(ci)
-		s := tapSeries(c.points, ber)
-		s.line = draw.LineStyle{Color: cl, Width: vg.Points(1.4)}
-		s.glyph = draw.GlyphStyle{Color: cl, Radius: vg.Points(2.6), Shape: draw.CircleGlyph{}}
-		s.boundSty = draw.GlyphStyle{Color: cl, Radius: vg.Points(3), Shape: downTriangle{}}
-		left.Add(s)
-		ys = append(ys, s.extent()...)
-		if m := estimatorMarks(c.points, ber, cl); m != nil {
-			left.Add(m)
-		}
-		name := "simulated BER"
-		if many {
-			name = c.label
-		}
-		legend.Add(name, s)
-		if pre >= 0 {
-			sp := tapSeries(c.points, pre)
-			sp.line = draw.LineStyle{Color: cl, Width: vg.Points(1.1), Dashes: preDashes}
-			sp.glyph = draw.GlyphStyle{Color: cl, Radius: vg.Points(2.4), Shape: ring{}}
-			sp.boundSty = s.boundSty
-			left.Add(sp)
-			ys = append(ys, sp.extent()...)
-			if !many {
-				legend.Add("pre-decoder BER", sp)
+		for k, name := range taps {
+			ti := r.TapIndex(name)
+			st := styleOf(k, name)
+			s := tapSeries(c.points, ti)
+			s.line = draw.LineStyle{Color: cl, Width: st.width, Dashes: st.dashes}
+			s.glyph = draw.GlyphStyle{Color: cl, Radius: st.radius, Shape: st.glyph}
+			s.boundSty = boundSty(cl)
+			left.Add(s)
+			ys = append(ys, s.extent()...)
+			if m := estimatorMarks(c.points, ti, cl); m != nil {
+				left.Add(m)
+			}
+			switch {
+			case k == 0 && many:
+				legend.Add(c.label, s)
+			case !many:
+				legend.Add(tapLegend(name), s)
 			}
 		}
 		if frames {
@@ -124,11 +131,11 @@ func BER(r *result.Run) (*Figure, error) {
 			sf := tapSeries(c.points, fer)
 			sf.line = draw.LineStyle{Color: cl, Width: vg.Points(1.4)}
 			sf.glyph = draw.GlyphStyle{Color: cl, Radius: vg.Points(2.6), Shape: diamond{}}
-			sf.boundSty = s.boundSty
+			sf.boundSty = boundSty(cl)
 			right.Add(sf)
 			fys = append(fys, sf.extent()...)
 			if !many {
-				legend.Add("simulated FER", sf)
+				legend.Add(tapLegend(link.TapFER), sf)
 			}
 		}
 	}
@@ -160,14 +167,32 @@ func BER(r *result.Run) (*Figure, error) {
 		legend.Add("theory: "+name, key)
 	}
 	if many {
-		if pre >= 0 {
-			legend.Add("pre-decoder BER", &series{line: draw.LineStyle{Color: theoryCl, Width: vg.Points(1.1), Dashes: preDashes},
-				glyph: draw.GlyphStyle{Color: theoryCl, Radius: vg.Points(2.4), Shape: ring{}}})
+		// With a colour per curve, the taps after the first are told apart by their marks.
+		for k, name := range taps[1:] {
+			st := styleOf(k+1, name)
+			legend.Add(tapLegend(name), &series{line: draw.LineStyle{Color: theoryCl, Width: st.width, Dashes: st.dashes},
+				glyph: draw.GlyphStyle{Color: theoryCl, Radius: st.radius, Shape: st.glyph}})
 		}
 	}
-	addEstimatorKeys(legend, r, ber)
-	if hasBound(r) {
-		legend.Add("no errors: "+confidence+" upper bound", boundKey{draw.GlyphStyle{Color: theoryCl, Radius: vg.Points(3), Shape: downTriangle{}}})
+	// Targets and specs: a line at the rate, each curve's crossing marked (targets.go).
+	if lines := levelLines(r, cs, taps, false); lines != nil {
+		left.Add(lines)
+		ys = append(ys, lines.rates()...)
+		legend.Add(lines.legend(), lines)
+	}
+	if frames {
+		if lines := levelLines(r, cs, taps, true); lines != nil {
+			right.Add(lines)
+			fys = append(fys, lines.rates()...)
+		}
+	}
+	addEstimatorKeys(legend, r, main)
+	drawn := slices.Clone(taps)
+	if frames {
+		drawn = append(drawn, link.TapFER)
+	}
+	if hasBound(r, drawn) {
+		legend.Add("no errors: "+confidence+" upper bound", boundKey{boundSty(theoryCl)})
 	}
 	setY(left, ys, theoryY)
 	panels := []*plot.Plot{left}
@@ -184,7 +209,7 @@ func BER(r *result.Run) (*Figure, error) {
 	}
 	return &Figure{
 		Title:   r.Name,
-		Caption: caption(r),
+		Caption: caption(r, main),
 		Panels:  panels,
 		Legend:  legend,
 		Width:   w,
@@ -210,10 +235,12 @@ func theoryColour(ci int, many bool) color.Color {
 	return theoryCl
 }
 
-func hasBound(r *result.Run) bool {
+// hasBound reports whether a point of one of the drawn taps counted no errors (it is drawn
+// at its upper bound).
+func hasBound(r *result.Run, taps []string) bool {
 	for _, p := range r.Points {
 		for _, t := range p.Taps {
-			if t.Trials > 0 && t.Errors == 0 && !t.Weighted() && (t.Name == link.TapBER || t.Name == link.TapPre) {
+			if t.Trials > 0 && t.Errors == 0 && !t.Weighted() && slices.Contains(taps, t.Name) {
 				return true
 			}
 		}
@@ -345,13 +372,12 @@ func (grid) Plot(c draw.Canvas, p *plot.Plot) {
 	}
 }
 
-// caption says how the figures were made: script, seed, the interval methods the BER tap used
+// caption says how the figures were made: script, seed, the interval methods the main tap used
 // (a point ended by an error count gets one valid for that rule), level and points.
-func caption(r *result.Run) string {
+func caption(r *result.Run, ber int) string {
 	var methods []string
 	seen := map[string]bool{}
 	widened := false
-	ber := r.TapIndex(link.TapBER)
 	for _, p := range r.Points {
 		if ber >= 0 && ber < len(p.Taps) {
 			m, clustered := strings.CutSuffix(p.Taps[ber].Method, "+clustered")

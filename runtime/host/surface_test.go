@@ -318,7 +318,7 @@ func TestSecondExperimentRefused(t *testing.T) {
 		!strings.Contains(se.Msg, `already ran the experiment "custom blocks"`) || !strings.Contains(se.Msg, "file of its own") {
 		t.Fatalf("second experiment: %v; want a script error at line %d saying a script runs one experiment", err, line)
 	}
-	if !bytes.Contains(table(t, p), []byte("ebn0_db,bits")) {
+	if !bytes.Contains(table(t, p), []byte("ebn0_db,ber_trials")) {
 		t.Error("the first experiment's table is missing")
 	}
 }

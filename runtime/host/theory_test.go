@@ -46,10 +46,10 @@ func TestBPSKScriptAgreesWithClosedForm(t *testing.T) {
 	for _, r := range rows[1:] {
 		db := num(r, "ebn0_db")
 		want := 0.5 * math.Erfc(math.Sqrt(math.Pow(10, db/10)))
-		lo, hi := num(r, "ci_low"), num(r, "ci_high")
+		lo, hi := num(r, "ber_low"), num(r, "ber_high")
 		if !(lo <= want && want <= hi) {
 			t.Errorf("Eb/N0 %g dB: closed form %.4g outside the reported interval [%.4g, %.4g] (%s errors in %s bits)",
-				db, want, lo, hi, r[col["errors"]], r[col["bits"]])
+				db, want, lo, hi, r[col["ber_errors"]], r[col["ber_trials"]])
 		}
 		if math.Abs(num(r, "theory_bpsk")-want) > 1e-5*want { // the table keeps six significant digits
 			t.Errorf("Eb/N0 %g dB: theory column %s, closed form %.6g", db, r[col["theory_bpsk"]], want)

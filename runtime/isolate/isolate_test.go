@@ -150,7 +150,7 @@ func TestReportCarriesEveryValue(t *testing.T) {
 // the rules its goal and time left come from (progress.Goals, progress.Left), through gob.
 func TestProgressMessage(t *testing.T) {
 	rules := []stop.Rule{stop.Errors(100), stop.Bits(1e7), stop.Time(time.Minute), stop.Errors(20).Tap(link.TapFER)}
-	p := progress.Point{Label: "ebn0_db=4", Index: 2, Total: 6, Rules: rules, Confidence: 0.99, Method: "wilson"}
+	p := progress.Point{Label: "ebn0_db=4", Index: 2, Total: 6, Rules: rules, Confidence: 0.99, Method: "wilson", Tap: link.TapFER}
 	pr := &stop.Progress{Frames: 12, Taps: []string{link.TapBER, link.TapFER},
 		Counts: []link.Tally{{Trials: 6144, Errors: 57, Frames: 12}, {Trials: 12, Errors: 9, Frames: 12}}, Elapsed: 1500 * time.Millisecond}
 	var buf bytes.Buffer
@@ -162,7 +162,7 @@ func TestProgressMessage(t *testing.T) {
 		t.Fatal(err)
 	}
 	got, gpr := out.Live.point(), out.Live.Prefix
-	if got.Label != p.Label || got.Index != p.Index || got.Total != p.Total || got.Confidence != p.Confidence || got.Method != p.Method {
+	if got.Label != p.Label || got.Index != p.Index || got.Total != p.Total || got.Confidence != p.Confidence || got.Method != p.Method || got.Tap != p.Tap {
 		t.Errorf("point %+v, sent %+v", got, p)
 	}
 	if fmt.Sprint(gpr) != fmt.Sprint(*pr) {
@@ -175,7 +175,7 @@ func TestProgressMessage(t *testing.T) {
 	if e0 != e1 || b0 != b1 || l0 != l1 || ok0 != ok1 || !ok1 {
 		t.Errorf("goals %d/%d, time left %v %v; sent %d/%d, %v %v", e1, b1, l1, ok1, e0, b0, l0, ok0)
 	}
-	if progress.Live(got, &gpr) != progress.Live(p, pr) {
+	if progress.Live(got, &gpr) != progress.Live(p, pr) || !strings.Contains(progress.Live(got, &gpr), "fer errors 9/20") {
 		t.Errorf("live line %q, in process %q", progress.Live(got, &gpr), progress.Live(p, pr))
 	}
 }

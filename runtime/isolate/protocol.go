@@ -83,6 +83,7 @@ type live struct {
 	Index, Total int
 	Confidence   float64
 	Method       string
+	Tap          string // the governing tap the line counts
 	Errors       []stop.ErrorTarget
 	Bits         []stop.BitCap
 	Time         []stop.TimeLimit
@@ -90,7 +91,7 @@ type live struct {
 }
 
 func liveOf(p progress.Point, pr *stop.Progress) *live {
-	l := &live{Label: p.Label, Index: p.Index, Total: p.Total, Confidence: p.Confidence, Method: p.Method, Prefix: *pr}
+	l := &live{Label: p.Label, Index: p.Index, Total: p.Total, Confidence: p.Confidence, Method: p.Method, Tap: p.Tap, Prefix: *pr}
 	for _, r := range p.Rules {
 		switch r := r.(type) {
 		case *stop.ErrorTarget:
@@ -106,7 +107,7 @@ func liveOf(p progress.Point, pr *stop.Progress) *live {
 
 // point is the progress.Point the parent hands its OnProgress.
 func (l *live) point() progress.Point {
-	p := progress.Point{Label: l.Label, Index: l.Index, Total: l.Total, Confidence: l.Confidence, Method: l.Method}
+	p := progress.Point{Label: l.Label, Index: l.Index, Total: l.Total, Confidence: l.Confidence, Method: l.Method, Tap: l.Tap}
 	for i := range l.Errors {
 		p.Rules = append(p.Rules, &l.Errors[i])
 	}

@@ -21,7 +21,7 @@ func TestWeightedTableAndSummary(t *testing.T) {
 		}}
 	table := string(Table(r))
 	for _, want := range []string{
-		"ebn0_db,bits,errors,ber,ci_low,ci_high,stop,estimator,effective_samples,weights,plain_bits_needed\n",
+		"ebn0_db,ber_trials,ber_errors,ber,ber_low,ber_high,stop,estimator,effective_samples,weights,plain_bits_needed\n",
 		"4,1000,100,0.1,0.08,0.12,errors,count,,,\n",
 		"14,40960,3800,4.5e-13,4e-13,5e-13,errors,importance-sampling,431,ok,6.3e+14\n",
 		"16,10000000,0,1e-15,5e-16,1.9e-15,bits,semi-analytic,14,degenerate,\n",

@@ -3,8 +3,10 @@ package output
 import (
 	"bytes"
 	"fmt"
+	"slices"
 	"strings"
 
+	"tally/blocks/link"
 	"tally/runtime/result"
 )
 
@@ -42,16 +44,20 @@ func Summary(r *result.Run, files []string) []byte {
 		}
 		b.WriteString("\n")
 	}
+	shown := r.ShownTaps()
 	b.WriteString("## Points\n\n|")
 	for _, p := range r.Params {
 		fmt.Fprintf(&b, " %s |", md(p))
 	}
-	b.WriteString(" bits | errors | BER | interval | stop |")
+	for _, tap := range shown {
+		b.WriteString(tapHeads(tap, len(shown) > 1))
+	}
+	b.WriteString(" stop |")
 	for _, c := range r.Theory {
 		fmt.Fprintf(&b, " %s |", md(c))
 	}
 	b.WriteString("\n|")
-	for range len(r.Params) + 5 + len(r.Theory) {
+	for range len(r.Params) + 4*len(shown) + 1 + len(r.Theory) {
 		b.WriteString("---|")
 	}
 	b.WriteString("\n")
@@ -60,20 +66,29 @@ func Summary(r *result.Run, files []string) []byte {
 		for i := range r.Params {
 			fmt.Fprintf(&b, " %s |", md(r.Value(p, i)))
 		}
-		if t := p.Taps[0]; p.Stop == skipped {
-			// Nothing was counted: empty cells, not a measured 0 of 0 with the interval [0, 1].
-			fmt.Fprintf(&b, " | | | | %s |", strings.TrimSuffix(skipped+": "+p.Note, ": "))
+		for _, tap := range shown {
+			k := r.TapIndex(tap)
+			if t := p.Taps[k]; p.Stop == skipped || t.Absent {
+				// Nothing was counted: empty cells, not a measured 0 of 0 with the interval [0, 1].
+				b.WriteString(" | | | |")
+			} else {
+				fmt.Fprintf(&b, " %d | %d | %s | [%s, %s] |", t.Trials, t.Errors, Num(t.Rate), Num(t.Low), Num(t.High))
+			}
+		}
+		if p.Stop == skipped {
+			fmt.Fprintf(&b, " %s |", strings.TrimSuffix(skipped+": "+p.Note, ": "))
 		} else {
-			fmt.Fprintf(&b, " %d | %d | %s | [%s, %s] | %s |", t.Trials, t.Errors, Num(t.Rate), Num(t.Low), Num(t.High), p.Stop)
+			fmt.Fprintf(&b, " %s |", p.Stop)
 		}
 		for _, v := range p.Theory {
 			fmt.Fprintf(&b, " %s |", Num(v))
 		}
 		b.WriteString("\n")
 	}
+	main := r.TapIndex(shown[0])
 	var bursty []string
 	for _, p := range r.Points {
-		if t := p.Taps[0]; strings.HasSuffix(t.Method, "+clustered") {
+		if t := p.Taps[main]; strings.HasSuffix(t.Method, "+clustered") {
 			var at []string
 			for i, n := range r.Params {
 				at = append(at, md(n+" "+r.Value(p, i)))
@@ -86,8 +101,14 @@ func Summary(r *result.Run, files []string) []byte {
 			strings.Join(bursty, "; "))
 	}
 	estimatorSummary(&b, r)
-	if len(r.Taps) > 1 {
-		b.WriteString("\nOther taps (frame error rate, pre-decoder BER, the script's own counts) are in `table.csv`.\n")
+	var others []string
+	for _, t := range r.Taps {
+		if !slices.Contains(shown, t) {
+			others = append(others, tapWords(t))
+		}
+	}
+	if len(others) > 0 {
+		fmt.Fprintf(&b, "\nThe other taps (%s) are in `table.csv`.\n", md(strings.Join(others, ", ")))
 	}
 	b.WriteString("\nSimulated and estimated error rates do not replace conformance testing under the applicable standards and licensed practice.\n")
 	return b.Bytes()
@@ -124,4 +145,34 @@ func targetLine(r *result.Run, t result.Target) string {
 		s += " (" + t.Open + ")"
 	}
 	return s
+}
+
+// tapWords names a tap for a reader: "BER", "FER", "pre-decoder BER", or the script's name.
+func tapWords(tap string) string {
+	switch tap {
+	case link.TapBER:
+		return "BER"
+	case link.TapFER:
+		return "FER"
+	case link.TapPre:
+		return "pre-decoder BER"
+	}
+	return tap
+}
+
+// tapHeads are the summary's column heads of one tap: what it counted, its errors, the
+// estimate and the interval; with several taps shown each head names its tap.
+func tapHeads(tap string, several bool) string {
+	trials := "trials"
+	switch tap {
+	case link.TapBER, link.TapPre:
+		trials = "bits"
+	case link.TapFER:
+		trials = "frames"
+	}
+	name := md(tapWords(tap))
+	if !several {
+		return fmt.Sprintf(" %s | errors | %s | interval |", trials, name)
+	}
+	return fmt.Sprintf(" %s %s | %s errors | %s | %s interval |", name, trials, name, name, name)
 }

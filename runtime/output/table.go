@@ -12,19 +12,22 @@ import (
 	"tally/runtime/result"
 )
 
-// tapColumns names a tap's column group. The BER tap keeps the plain names the trade reads
-// first; the frame tap says frames; every other tap is prefixed with its name.
-func tapColumns(tap string) []string {
-	switch tap {
-	case link.TapBER:
-		return []string{"bits", "errors", "ber", "ci_low", "ci_high"}
-	case link.TapFER:
-		return []string{"frames", "frame_errors", "fer", "fer_low", "fer_high"}
-	case link.TapPre:
-		return []string{"pre_bits", "pre_errors", "pre_ber", "pre_low", "pre_high"}
-	default:
-		return []string{tap + "_trials", tap + "_errors", tap, tap + "_low", tap + "_high"}
+// TapQuantity is the name a tap's figures go by in table.csv: "ber", "fer", "pre_ber" for the
+// pre-decoder tap, and a script's own tap by its name ("payload").
+func TapQuantity(tap string) string {
+	if tap == link.TapPre {
+		return "pre_ber"
 	}
+	return tap
+}
+
+// tapColumns names a tap's column group, one pattern for every tap: for the quantity q
+// (TapQuantity) the trials counted q_trials, the errors among them q_errors, the estimate q,
+// and its interval q_low, q_high ("ber_trials,ber_errors,ber,ber_low,ber_high";
+// "payload_trials,…,payload_high").
+func tapColumns(tap string) []string {
+	q := TapQuantity(tap)
+	return []string{q + "_trials", q + "_errors", q, q + "_low", q + "_high"}
 }
 
 // Num formats a rate or interval bound: six significant digits, the same bytes on every run;
@@ -68,8 +71,8 @@ func Table(r *result.Run) []byte {
 		for i := range r.Params {
 			row = append(row, csvCell(r.Value(p, i)))
 		}
-		for i, t := range p.Taps {
-			if t.Absent {
+		for i, t := range p.Taps { // a skipped point counted nothing: empty cells, not 0 of 0
+			if t.Absent || p.Stop == skipped {
 				row = append(row, "", "", "", "", "")
 			} else {
 				row = append(row, strconv.FormatInt(t.Trials, 10), strconv.FormatInt(t.Errors, 10), Num(t.Rate), Num(t.Low), Num(t.High))

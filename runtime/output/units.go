@@ -59,9 +59,18 @@ func axisValue(v float64, unit string) string {
 		return "open"
 	}
 	if unit == "dB" || unit == "dB-Hz" {
-		return fmt.Sprintf("%.2f", v)
+		return unsigned(fmt.Sprintf("%.2f", v))
 	}
-	return fmt.Sprintf("%.3g", v)
+	return unsigned(fmt.Sprintf("%.3g", v))
+}
+
+// unsigned drops the sign of a number that rounded to zero: "-0.00" reads as a loss where
+// there is none.
+func unsigned(s string) string {
+	if rest, ok := strings.CutPrefix(s, "-"); ok && strings.Trim(rest, "0.") == "" {
+		return rest
+	}
+	return s
 }
 
 // distance words how far this curve's crossing lies from another's (than): d is this
@@ -80,8 +89,8 @@ func distance(param string, d float64, than string) string {
 		}
 		return fmt.Sprintf("needs %s %s than %s", amount(d, unit), more, than)
 	}
-	if d == 0 {
-		return fmt.Sprintf("at the same %s as %s", param, than)
+	if d == 0 || strings.Trim(amount(d, unit), "0. ") == unit {
+		return fmt.Sprintf("at the same %s as %s", param, than) // nothing left after rounding
 	}
 	higher := "higher"
 	if d < 0 {

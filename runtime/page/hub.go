@@ -42,14 +42,15 @@ type Live struct {
 	Label   string  `json:"label"`   // the point's parameters, "ebn0_db=4 modem=QPSK"
 	Index   int     `json:"index"`   // 0-based position in the sweep
 	Total   int     `json:"total"`   // points in the sweep
-	Errors  int64   `json:"errors"`  // BER tap errors so far
-	Goal    int64   `json:"goal"`    // errors the stop rules ask for (0: no such rule)
+	Tap     string  `json:"tap"`     // the governing tap: the one the rules count errors on
+	Errors  int64   `json:"errors"`  // the governing tap's errors so far
+	Goal    int64   `json:"goal"`    // errors the stop rules ask for on it (0: no such rule)
 	Bits    int64   `json:"bits"`    // BER tap bits so far
 	Cap     int64   `json:"cap"`     // bits the stop rules allow (0: no such rule)
 	Rate    float64 `json:"rate"`    // bits per second so far
 	Left    float64 `json:"left"`    // seconds left, estimated from the rates (-1: unknown)
 	Elapsed float64 `json:"elapsed"` // seconds on this point
-	BER     float64 `json:"ber"`     // the estimate and fixed-n interval of the prefix
+	BER     float64 `json:"ber"`     // the governing tap's estimate and fixed-n interval so far
 	Low     float64 `json:"low"`
 	High    float64 `json:"high"`
 }
@@ -57,9 +58,17 @@ type Live struct {
 // LiveOf is the Live of a running point from what its progress line is given.
 func LiveOf(p progress.Point, pr *stop.Progress) Live {
 	ber, _ := pr.Tap(link.TapBER)
-	l := Live{Label: p.Label, Index: p.Index, Total: p.Total, Errors: ber.Errors, Bits: ber.Trials,
+	tap := p.Tap
+	if tap == "" {
+		tap = link.TapBER
+	}
+	t, ok := pr.Tap(tap)
+	if !ok {
+		tap, t = link.TapBER, ber
+	}
+	l := Live{Label: p.Label, Index: p.Index, Total: p.Total, Tap: tap, Errors: t.Errors, Bits: ber.Trials,
 		Elapsed: pr.Elapsed.Seconds(), Left: -1, BER: math.NaN(), Low: math.NaN(), High: math.NaN()}
-	l.Goal, l.Cap = progress.Goals(p.Rules)
+	l.Goal, l.Cap = progress.GoalsOn(p.Rules, tap)
 	if l.Elapsed > 0 {
 		l.Rate = float64(ber.Trials) / l.Elapsed
 	}
@@ -70,8 +79,8 @@ func LiveOf(p progress.Point, pr *stop.Progress) Live {
 	if conf == 0 {
 		conf = 0.95
 	}
-	if ber.Trials > 0 {
-		if e, err := stats.Interval(p.Method, ber.Errors, ber.Trials, conf); err == nil {
+	if t.Trials > 0 {
+		if e, err := stats.Interval(p.Method, t.Errors, t.Trials, conf); err == nil {
 			l.BER, l.Low, l.High = e.Rate, e.Low, e.High
 		}
 	}

@@ -43,6 +43,17 @@ type Point struct {
 	Rules        []stop.Rule // the point's stop rules, for the goal and the time left
 	Confidence   float64     // interval level (0.95 if zero)
 	Method       string      // interval method (stats.MethodNamed; "" is the default)
+	// Tap is the tap the line counts: the governing one, whose rules end the point (a
+	// script's "payload" tap when its error count does); "" is the BER tap.
+	Tap string
+}
+
+// tap is the tap the line counts.
+func (p Point) tap() string {
+	if p.Tap == "" {
+		return link.TapBER
+	}
+	return p.Tap
 }
 
 // Line is the live line of one running point on a terminal.
@@ -89,15 +100,30 @@ func (l *Line) Close() {
 }
 
 // Live is the text of a live line: the point, errors against the goal, bits against the cap,
-// the BER and its interval so far, the throughput and the time left.
+// the BER and its interval so far, the throughput and the time left. Off the BER tap (a
+// governing tap of the script's own) the errors, trials and estimate are that tap's:
+//
+//	[3/6] ebn0_db=4  payload errors 57/100 of 1.23M  bits 1.5M/10M  payload 4.63e-05 [3.51e-05, 6e-05]  …
 func Live(p Point, pr *stop.Progress) string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "[%d/%d] %s ", p.Index+1, p.Total, p.Label)
+	name := p.tap()
 	ber, _ := pr.Tap(link.TapBER)
-	goal, bitCap := goals(p.Rules)
-	fmt.Fprintf(&b, " errors %d", ber.Errors)
+	t, ok := pr.Tap(name)
+	if !ok {
+		name, t = link.TapBER, ber
+	}
+	goal, bitCap := goals(p.Rules, name)
+	if name == link.TapBER {
+		fmt.Fprintf(&b, " errors %d", t.Errors)
+	} else {
+		fmt.Fprintf(&b, " %s errors %d", name, t.Errors)
+	}
 	if goal > 0 {
 		fmt.Fprintf(&b, "/%d", goal)
+	}
+	if name != link.TapBER {
+		fmt.Fprintf(&b, " of %s", SI(float64(t.Trials)))
 	}
 	fmt.Fprintf(&b, "  bits %s", SI(float64(ber.Trials)))
 	if bitCap > 0 {
@@ -107,16 +133,16 @@ func Live(p Point, pr *stop.Progress) string {
 	if conf == 0 {
 		conf = 0.95
 	}
-	if ber.Trials > 0 && ber.Estimator != link.Count {
+	if t.Trials > 0 && t.Estimator != link.Count {
 		// Importance sampling or semi-analytic: the weighted estimate so far.
-		if e, err := stats.Weighted(ber, conf); err == nil {
-			fmt.Fprintf(&b, "  ber %.3g [%.3g, %.3g] %s", e.Rate, e.Low, e.High, ber.Estimator)
+		if e, err := stats.Weighted(t, conf); err == nil {
+			fmt.Fprintf(&b, "  %s %.3g [%.3g, %.3g] %s", name, e.Rate, e.Low, e.High, t.Estimator)
 		}
-	} else if ber.Trials > 0 {
+	} else if t.Trials > 0 {
 		// The fixed-n interval of the prefix: a gauge while running; the finished point gets
 		// the interval valid for the rule that ended it.
-		if e, err := stats.Interval(p.Method, ber.Errors, ber.Trials, conf); err == nil {
-			fmt.Fprintf(&b, "  ber %.3g [%.3g, %.3g]", e.Rate, e.Low, e.High)
+		if e, err := stats.Interval(p.Method, t.Errors, t.Trials, conf); err == nil {
+			fmt.Fprintf(&b, "  %s %.3g [%.3g, %.3g]", name, e.Rate, e.Low, e.High)
 		}
 	}
 	if sec := pr.Elapsed.Seconds(); sec > 0 {
@@ -130,14 +156,26 @@ func Live(p Point, pr *stop.Progress) string {
 
 // Goals are the error count and bit cap the rules ask for on the BER tap (0: none), what a
 // progress bar fills toward.
-func Goals(rules []stop.Rule) (errs, bits int64) { return goals(rules) }
+func Goals(rules []stop.Rule) (errs, bits int64) { return goals(rules, link.TapBER) }
 
-// goals are the error count and bit cap the rules ask for on the BER tap (0: none).
-func goals(rules []stop.Rule) (errs, bits int64) {
+// GoalsOn is Goals with the error count asked for on the named tap (the governing one).
+func GoalsOn(rules []stop.Rule, tap string) (errs, bits int64) {
+	if tap == "" {
+		tap = link.TapBER
+	}
+	return goals(rules, tap)
+}
+
+// goals are the error count on tap and the bit cap the rules ask for (0: none).
+func goals(rules []stop.Rule, tap string) (errs, bits int64) {
 	for _, r := range rules {
 		switch r := r.(type) {
 		case *stop.ErrorTarget:
-			if (r.On == link.TapBER || r.On == "") && (errs == 0 || r.Count < errs) {
+			on := r.On
+			if on == "" {
+				on = link.TapBER
+			}
+			if on == tap && (errs == 0 || r.Count < errs) {
 				errs = r.Count
 			}
 		case *stop.BitCap:
@@ -145,7 +183,7 @@ func goals(rules []stop.Rule) (errs, bits int64) {
 				bits = r.Max
 			}
 		case *stop.AllOf: // its error count is a goal the point must reach
-			if e, _ := goals(r.Rules); e > 0 && (errs == 0 || e < errs) {
+			if e, _ := goals(r.Rules, tap); e > 0 && (errs == 0 || e < errs) {
 				errs = e
 			}
 		}
@@ -218,17 +256,43 @@ func left(r stop.Rule, pr *stop.Progress, sec float64) (float64, bool) {
 
 // Finished is the line a finished point leaves: the point, its BER tap's count, estimate and
 // interval, why it stopped, and the throughput.
-func Finished(label string, rp result.Point) string {
+func Finished(label string, rp result.Point) string { return FinishedOn(label, rp, link.TapBER) }
+
+// FinishedOn is Finished on the named tap (the governing one), with the BER beside it when
+// that is another tap:
+//
+//	ebn0_db=6  payload_trials=917504 payload_errors=5 payload=5.45e-06 [1.77e-06, 1.27e-05] ber=0.00172 stop=payload_errors  …
+func FinishedOn(label string, rp result.Point, tap string) string {
 	var b strings.Builder
 	b.WriteString(label)
-	if len(rp.Taps) > 0 {
-		t := rp.Taps[0]
-		fmt.Fprintf(&b, "  bits=%d errors=%d ber=%.3g [%.3g, %.3g]", t.Trials, t.Errors, t.Rate, t.Low, t.High)
+	k := -1
+	for i, t := range rp.Taps {
+		if t.Name == tap && !t.Absent {
+			k = i
+		}
+	}
+	if k < 0 && len(rp.Taps) > 0 {
+		k = 0
+	}
+	if k >= 0 {
+		t := rp.Taps[k]
+		if t.Name == link.TapBER || t.Name == "" {
+			fmt.Fprintf(&b, "  bits=%d errors=%d ber=%.3g [%.3g, %.3g]", t.Trials, t.Errors, t.Rate, t.Low, t.High)
+		} else {
+			q := t.Name
+			if q == link.TapPre {
+				q = "pre_ber"
+			}
+			fmt.Fprintf(&b, "  %s_trials=%d %s_errors=%d %s=%.3g [%.3g, %.3g]", q, t.Trials, q, t.Errors, q, t.Rate, t.Low, t.High)
+		}
 		if t.Weighted() {
 			fmt.Fprintf(&b, " %s", t.Estimator)
 			if t.Degenerate {
 				b.WriteString(" (weights degenerated)")
 			}
+		}
+		if ber := rp.Taps[0]; t.Name != ber.Name && ber.Name == link.TapBER && !ber.Absent {
+			fmt.Fprintf(&b, " ber=%.3g", rp.Taps[0].Rate)
 		}
 	}
 	fmt.Fprintf(&b, " stop=%s  %.1f Mbit/s  %s", rp.Stop, rp.BitRate/1e6, Duration(time.Duration(rp.Seconds*float64(time.Second))))

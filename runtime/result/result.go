@@ -33,6 +33,11 @@ type Run struct {
 	Interrupted  bool       `json:"interrupted"`
 	// Shards, for a run merged from shard files (tally merge), says where its frames came from.
 	Shards *Shards `json:"shards,omitempty"`
+	// Shown are the taps the plot and README.md show, the governing one (the tap the stop
+	// rules judge, or the script's choice) first; empty in records from before: the BER tap.
+	Shown []string `json:"shown,omitempty"`
+	// Specs are the rates the stop rules claim a tap below or above (stop.Below, stop.Above).
+	Specs []Spec `json:"specs,omitempty"`
 	// Scatter is one frame's received samples at a chosen point, for the constellation plot
 	// (not part of run.json: the plot is the record).
 	Scatter *Scatter  `json:"-"`
@@ -139,6 +144,14 @@ type Target struct {
 	Open string `json:"open,omitempty"`
 }
 
+// Spec is a rate a stop rule shows a tap below or above (stop.Below, stop.Above): the plot
+// draws it as a line in the tap's panel.
+type Spec struct {
+	Tap  string  `json:"tap"`
+	Rate float64 `json:"rate"`
+	Rule string  `json:"rule"` // "below" or "above"
+}
+
 // Input is a file a script read, by its name relative to the script and its SHA-256.
 type Input struct {
 	Name   string `json:"name"`
@@ -169,6 +182,21 @@ func (r *Run) Value(p Point, i int) string {
 		}
 	}
 	return strconv.FormatFloat(p.Values[i], 'g', -1, 64)
+}
+
+// ShownTaps are the taps to plot and summarise, the governing one first: Shown without the
+// taps no point counted, or the BER tap (a record written before Shown, a run that named none).
+func (r *Run) ShownTaps() []string {
+	var taps []string
+	for _, t := range r.Shown {
+		if r.TapIndex(t) >= 0 {
+			taps = append(taps, t)
+		}
+	}
+	if len(taps) == 0 {
+		taps = []string{"ber"}
+	}
+	return taps
 }
 
 // TapIndex is the index of the named tap, or -1.

@@ -10,7 +10,8 @@ import (
 	"tally/runtime/result"
 )
 
-// Changes says, one line per point, how the BER moved from prev to next and whether the move is
+// Changes says, one line per point, how the shown tap's rate (the BER, or the tap the stop
+// rules judge: result.Run.ShownTaps) moved from prev to next and whether the move is
 // more than chance: Fisher's exact test on the two counts (compare.Proportions), with Holm's
 // correction across the points so that a sweep of twenty points does not flag one by chance
 // at the 5 % level. Then the move of each target crossing (the Eb/N0 at a BER of 10⁻⁵, say).
@@ -31,9 +32,19 @@ func Changes(prev, next *result.Run) []string {
 		p     float64
 		test  bool
 	}
-	ob, nb := prev.TapIndex(link.TapBER), next.TapIndex(link.TapBER)
+	// The tap the run shows (the one its stop rules judge), on both runs; else the BER.
+	tap := next.ShownTaps()[0]
+	ob, nb := prev.TapIndex(tap), next.TapIndex(tap)
+	if ob < 0 || nb < 0 {
+		tap = link.TapBER
+		ob, nb = prev.TapIndex(tap), next.TapIndex(tap)
+	}
 	if ob < 0 || nb < 0 {
 		return nil
+	}
+	q := tap
+	if q == link.TapPre {
+		q = "pre_ber"
 	}
 	old := map[string]*result.Tap{}
 	for i := range prev.Points {
@@ -86,16 +97,16 @@ func Changes(prev, next *result.Run) []string {
 		case r.new.Trials == 0:
 			s += "not run this time (" + r.stop + ")"
 		case r.old == nil:
-			s += fmt.Sprintf("ber %.3g  (new point)", r.new.Rate)
+			s += fmt.Sprintf("%s %.3g  (new point)", q, r.new.Rate)
 		case r.old.Errors == r.new.Errors && r.old.Trials == r.new.Trials && r.old.Rate == r.new.Rate:
-			s += fmt.Sprintf("ber %.3g  same counts", r.new.Rate)
+			s += fmt.Sprintf("%s %.3g  same counts", q, r.new.Rate)
 		case !r.test:
-			s += fmt.Sprintf("ber %.3g → %.3g", r.old.Rate, r.new.Rate)
+			s += fmt.Sprintf("%s %.3g → %.3g", q, r.old.Rate, r.new.Rate)
 			if r.new.Weighted() {
 				s += fmt.Sprintf("  (%s, interval [%.3g, %.3g]; not tested)", r.new.Estimator, r.new.Low, r.new.High)
 			}
 		default:
-			s += fmt.Sprintf("ber %.3g → %.3g", r.old.Rate, r.new.Rate)
+			s += fmt.Sprintf("%s %.3g → %.3g", q, r.old.Rate, r.new.Rate)
 			if r.old.Errors > 0 && r.new.Errors > 0 {
 				s += fmt.Sprintf(" (×%.3g)", r.new.Rate/r.old.Rate)
 			}
@@ -116,7 +127,11 @@ func Changes(prev, next *result.Run) []string {
 		lines = []string{fmt.Sprintf("same counts at all %d points", len(rows))}
 	}
 	if len(ps) > 0 {
-		note := fmt.Sprintf("p: Fisher's exact test on the BER counts, two-sided (bursty points on their effective counts, Rao–Scott); CHANGED at p ≤ %.3g", alpha)
+		counts := "the BER counts"
+		if tap != link.TapBER {
+			counts = "the " + q + " counts"
+		}
+		note := fmt.Sprintf("p: Fisher's exact test on %s, two-sided (bursty points on their effective counts, Rao–Scott); CHANGED at p ≤ %.3g", counts, alpha)
 		if len(ps) > 1 {
 			note += fmt.Sprintf(", Holm-adjusted over %d points", len(ps))
 		}

@@ -15,7 +15,7 @@ import (
 func (x *experiment) runEngine(ctx context.Context, pt Point, rules []stop.Rule, s engine.Spec) (engine.Outcome, error) {
 	o := x.opts
 	pp := progress.Point{Label: pt.text(), Index: pt.Index, Total: x.pointCount(),
-		Rules: rules, Confidence: x.Confidence, Method: x.Method}
+		Rules: rules, Confidence: x.Confidence, Method: x.Method, Tap: x.tap}
 	var line *progress.Line
 	if !o.Quiet && isTerminal(o.log()) {
 		line = progress.NewLine(o.log(), pp)
@@ -34,8 +34,10 @@ var (
 	progressEvery = progress.Every
 )
 
-// finishedLine is the log line of a finished point.
-func finishedLine(pt Point, rp result.Point) string { return progress.Finished(pt.text(), rp) }
+// finishedLine is the log line of a finished point, on the governing tap.
+func (x *experiment) finishedLine(pt Point, rp result.Point) string {
+	return progress.FinishedOn(pt.text(), rp, x.tap)
+}
 
 func (x *experiment) pointCount() int {
 	n := 1

@@ -39,6 +39,7 @@ type experiment struct {
 	*Spec
 	opts *Options
 	long *longrun.Session // checkpoint, shard or replay (nil: none)
+	tap  string           // the governing tap: the one the progress line counts
 }
 
 // Run runs a script's experiment (sim.Experiment.Run): every point, then table.csv, run.json,
@@ -134,7 +135,11 @@ func (x *experiment) execute() (*result.Run, error) {
 	for _, c := range x.Theory {
 		run.Theory = append(run.Theory, c.Name)
 	}
+	run.Shown = x.shownTaps(rules)
+	run.Specs = ruleSpecs(rules)
+	x.tap = run.Shown[0]
 	points := x.grid()
+	checked := false
 	for _, pt := range points {
 		if skip, why := x.skip(run, pt); skip {
 			run.Points = append(run.Points, x.skipped(run, pt, why))
@@ -147,6 +152,12 @@ func (x *experiment) execute() (*result.Run, error) {
 		rp, err := x.runPoint(ctx, pt, rules, seed, workers)
 		if err != nil {
 			return nil, err
+		}
+		if !checked && rp.Stop != engine.Interrupted {
+			if err := x.checkShown(rp); err != nil {
+				return nil, err
+			}
+			checked = true
 		}
 		run.Taps = unionTaps(run.Taps, rp.Taps)
 		run.Points = append(run.Points, rp)
@@ -165,6 +176,7 @@ func (x *experiment) execute() (*result.Run, error) {
 	run.End = time.Now().UTC()
 	run.Shards = x.long.Record()
 	alignTaps(run)
+	settleShown(run)
 	x.findTargets(run)
 	x.checkLimits(run)
 	if !run.Interrupted {
@@ -306,7 +318,7 @@ func (x *experiment) grid() []Point {
 }
 
 func (x *experiment) report(pt Point, rp result.Point) {
-	x.opts.logf("%s\n", finishedLine(pt, rp))
+	x.opts.logf("%s\n", x.finishedLine(pt, rp))
 }
 
 type curveView struct {

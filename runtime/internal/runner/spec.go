@@ -29,6 +29,11 @@ type Spec struct {
 	Limits       []Limit
 	Inputs       []result.Input
 	AutoEstimate bool
+	// Show are the taps the plot and README.md show, the first also the progress line's
+	// (sim.Experiment.Show); empty: the taps the rules and targets judge (shownTaps). ShowAt
+	// is the script position of the Show call, for a tap the link does not count.
+	Show   []string
+	ShowAt string
 }
 
 // NewSpec is a spec with the defaults: 95 % Clopper–Pearson intervals, DefaultSeed.

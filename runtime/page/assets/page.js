@@ -104,6 +104,12 @@
     });
     return out;
   }
+  function governing(run) {
+    // The tap the script's rules and targets judge (run.json's "shown", first), else the BER.
+    var s = (run.shown || []).filter(function (t) { return run.taps.indexOf(t) >= 0; });
+    if (s.length) return s[0];
+    return run.taps.indexOf("ber") >= 0 ? "ber" : run.taps[0];
+  }
   function shown(v) {
     // The run drawn in full, and a run drawn faded behind it (the last good one, while a new
     // run fills in).
@@ -313,12 +319,12 @@
   function table(v) {
     var sh = shown(v), run = sh.run || sh.ghost;
     if (!run || !run.points || !run.points.length) return '<p class="muted">no points yet</p>';
-    var main_ = run.taps.indexOf("ber") >= 0 ? "ber" : run.taps[0];
+    var main_ = governing(run);
     var others = run.taps.filter(function (t) { return t !== main_; });
     var conf = Math.round(num(run.confidence) * 100);
     var h = ['<div class="tablewrap"><table><thead><tr>'];
     run.params.forEach(function (p) { h.push('<th class="p">' + esc(p) + "</th>"); });
-    h.push("<th>bits</th><th>errors</th><th>" + esc(main_.toUpperCase()) + "</th><th>" + conf + " % interval</th>");
+    h.push("<th>" + (main_ === "ber" || main_ === "pre" ? "bits" : main_ === "fer" ? "frames" : "trials") + "</th><th>errors</th><th>" + esc(main_.toUpperCase()) + "</th><th>" + conf + " % interval</th>");
     others.forEach(function (t) { h.push("<th>" + esc(t.toUpperCase()) + "</th>"); });
     (run.theory || []).forEach(function (t) { h.push("<th>theory " + esc(t) + "</th>"); });
     h.push('<th class="p">stop</th><th>time</th></tr></thead><tbody>');
@@ -328,11 +334,17 @@
       var cls = p.stop === "skipped" ? "skip" : i === last ? "new" : "";
       h.push("<tr" + (cls ? ' class="' + cls + '"' : "") + ">");
       run.params.forEach(function (n, k) { h.push('<td class="p">' + esc(valueText(run, p, k)) + "</td>"); });
-      h.push("<td>" + si(t.trials) + "</td><td>" + t.errors + "</td><td>" + rate(t.rate) + "</td><td>" + rate(t.ci_low) + " – " + rate(t.ci_high) + "</td>");
-      others.forEach(function (n) {
-        var o = tapOf(p, n);
-        h.push(o ? '<td title="' + o.errors + " of " + o.trials + '">' + rate(o.rate) + "</td>" : "<td>–</td>");
-      });
+      if (p.stop === "skipped") {
+        // Nothing was counted: empty cells, not a measured 0 of 0 with the interval [0, 1].
+        h.push("<td></td><td></td><td></td><td></td>");
+        others.forEach(function () { h.push("<td></td>"); });
+      } else {
+        h.push("<td>" + si(t.trials) + "</td><td>" + t.errors + "</td><td>" + rate(t.rate) + "</td><td>" + rate(t.ci_low) + " – " + rate(t.ci_high) + "</td>");
+        others.forEach(function (n) {
+          var o = tapOf(p, n);
+          h.push(o ? '<td title="' + o.errors + " of " + o.trials + '">' + rate(o.rate) + "</td>" : "<td>–</td>");
+        });
+      }
       (run.theory || []).forEach(function (n, k) { h.push("<td>" + rate((p.theory || [])[k]) + "</td>"); });
       h.push('<td class="stop">' + esc(p.stop || "") + (p.note ? " · " + esc(p.note) : "") + "</td><td>" + seconds(p.wall_seconds) + "</td></tr>");
     });
@@ -410,7 +422,7 @@
     // the tap chooser and the plot
     var taps = run ? run.taps || [] : [];
     var tap = S.tap.get(v.id);
-    if (!tap || taps.indexOf(tap) < 0) tap = taps.indexOf("ber") >= 0 ? "ber" : taps[0] || "ber";
+    if (!tap || taps.indexOf(tap) < 0) tap = run ? governing(run) : taps.indexOf("ber") >= 0 ? "ber" : taps[0] || "ber";
     el.querySelector(".taps").innerHTML = taps.length > 1 ? taps.map(function (t) {
       return '<button type="button" data-tap="' + esc(t) + '" aria-pressed="' + (t === tap) + '">' + esc(t.toUpperCase()) + "</button>";
     }).join("") : "";
@@ -441,9 +453,9 @@
     if (l.cap > 0) f = Math.max(f, l.bits / l.cap);
     f = Math.min(1, f);
     var words = "[" + (l.index + 1) + "/" + l.total + "] " + l.label +
-      " · errors " + l.errors + (l.goal ? "/" + l.goal : "") +
+      " · " + (l.tap && l.tap !== "ber" ? l.tap + " " : "") + "errors " + l.errors + (l.goal ? "/" + l.goal : "") +
       " · bits " + si(l.bits) + (l.cap ? "/" + si(l.cap) : "") +
-      (isFinite(num(l.ber)) ? " · ber " + rate(l.ber) : "") +
+      (isFinite(num(l.ber)) ? " · " + (l.tap || "ber") + " " + rate(l.ber) : "") +
       " · " + (num(l.rate) / 1e6).toFixed(1) + " Mbit/s" +
       (num(l.left) >= 0 ? " · ~" + seconds(l.left) + " left" : "");
     var bar = bars.querySelector(".bar");

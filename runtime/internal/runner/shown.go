@@ -1,0 +1,126 @@
+package runner
+
+import (
+	"fmt"
+	"slices"
+	"strings"
+
+	"tally/blocks/link"
+	"tally/blocks/stop"
+	"tally/runtime/result"
+)
+
+// ruleTaps are the taps the stop rules judge, in the order the script gave them (inside All
+// too): the tap of an error count, a precision, a below or above claim. Bits, frames and time
+// judge no tap of the script's choosing and name none.
+func ruleTaps(rules []stop.Rule) []string {
+	var taps []string
+	add := func(on string) {
+		if on == "" {
+			on = link.TapBER
+		}
+		if !slices.Contains(taps, on) {
+			taps = append(taps, on)
+		}
+	}
+	var walk func(rules []stop.Rule)
+	walk = func(rules []stop.Rule) {
+		for _, r := range rules {
+			switch r := r.(type) {
+			case *stop.ErrorTarget:
+				add(r.On)
+			case *stop.WidthRatio:
+				add(r.On)
+			case *stop.ShownBelow:
+				add(r.On)
+			case *stop.ShownAbove:
+				add(r.On)
+			case *stop.AllOf:
+				walk(r.Rules)
+			}
+		}
+	}
+	walk(rules)
+	return taps
+}
+
+// ruleSpecs are the rates the stop rules claim a tap below or above, for the plot's lines.
+func ruleSpecs(rules []stop.Rule) []result.Spec {
+	var specs []result.Spec
+	tap := func(on string) string {
+		if on == "" {
+			return link.TapBER
+		}
+		return on
+	}
+	var walk func(rules []stop.Rule)
+	walk = func(rules []stop.Rule) {
+		for _, r := range rules {
+			switch r := r.(type) {
+			case *stop.ShownBelow:
+				specs = append(specs, result.Spec{Tap: tap(r.On), Rate: r.Target, Rule: "below"})
+			case *stop.ShownAbove:
+				specs = append(specs, result.Spec{Tap: tap(r.On), Rate: r.Target, Rule: "above"})
+			case *stop.AllOf:
+				walk(r.Rules)
+			}
+		}
+	}
+	walk(rules)
+	return specs
+}
+
+// shownTaps are the taps the plot and README.md show, the governing one first: the script's
+// own choice (sim.Experiment.Show), else the taps its stop rules judge and then those its
+// targets cross, else the BER tap.
+func (x *experiment) shownTaps(rules []stop.Rule) []string {
+	if len(x.Show) > 0 {
+		return slices.Clone(x.Show)
+	}
+	taps := ruleTaps(rules)
+	for _, t := range x.Targets {
+		if !slices.Contains(taps, t.Tap) {
+			taps = append(taps, t.Tap)
+		}
+	}
+	if len(taps) == 0 {
+		taps = []string{link.TapBER}
+	}
+	return taps
+}
+
+// checkShown refuses, at the script's Show, a tap the first point's link does not count (a
+// misspelt name would otherwise show the BER without a word). The pre-decoder tap is left to
+// the end of the run, since an uncoded first curve lacks it.
+func (x *experiment) checkShown(rp result.Point) error {
+	for _, name := range x.Show {
+		if name == link.TapPre || slices.ContainsFunc(rp.Taps, func(t result.Tap) bool { return t.Name == name }) {
+			continue
+		}
+		var have []string
+		for _, t := range rp.Taps {
+			have = append(have, t.Name)
+		}
+		return &Failure{Pos: x.ShowAt, Err: fmt.Errorf("sim.Show: the link counts no tap %q (it counts %s)", name, strings.Join(have, ", "))}
+	}
+	return nil
+}
+
+// settleShown keeps of run.Shown the taps some point counted (a rule or target on a tap the
+// link lacks names nothing to draw), and the BER tap when none is left.
+func settleShown(run *result.Run) {
+	var kept []string
+	for _, name := range run.Shown {
+		if run.TapIndex(name) >= 0 {
+			kept = append(kept, name)
+		}
+	}
+	if len(kept) == 0 {
+		kept = []string{link.TapBER}
+	}
+	run.Shown = kept
+}
+
+// Here names the script statement being run ("file:line:col" hosted, "file:line" compiled),
+// for a declaration that is checked later, when the run has counted its first point.
+func (o *Options) Here() string { return o.where(3) }
