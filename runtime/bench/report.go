@@ -125,6 +125,9 @@ func Report(ctx context.Context, o Options, w io.Writer) error {
 			return err
 		}
 	}
+	if err := combinerReport(ctx, o, w); err != nil {
+		return err
+	}
 	fmt.Fprintln(w)
 	return memory(ctx, o, w)
 }
