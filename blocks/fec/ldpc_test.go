@@ -281,6 +281,12 @@ func TestLDPCRulesAndSchedules(t *testing.T) {
 	try := func(dec *fec.LDPCDecoder) res {
 		l := softLink(504, 2, c.Encoder(), dec)
 		got := run(t, l.Count("it", dec.IterationsUsed), 300, 3)
+		// No FER below the normal approximation (Polyanskiy, Poor and Verdú 2010) beyond its
+		// interval on frames.
+		fer := got[link.TapFER]
+		if e, _ := stats.ClopperPearson(fer.Errors, fer.Trials, 0.99); e.High < theory.NormalApprox(1008, 504, 2) {
+			t.Errorf("%s: FER %d/%d below the normal approximation %.3g", dec.Name(), fer.Errors, fer.Trials, theory.NormalApprox(1008, 504, 2))
+		}
 		return res{got[link.TapBER], float64(got["it"].Errors) / float64(got["it"].Trials) * 50}
 	}
 	bp, lbp := try(c.Decoder()), try(c.Decoder().Layer())
