@@ -281,6 +281,12 @@ func TestLDPCRulesAndSchedules(t *testing.T) {
 	try := func(dec *fec.LDPCDecoder) res {
 		l := softLink(504, 2, c.Encoder(), dec)
 		got := run(t, l.Count("it", dec.IterationsUsed), 300, 3)
+		// No FER below the normal approximation (Polyanskiy, Poor and Verdú 2010) beyond its
+		// interval on frames.
+		fer := got[link.TapFER]
+		if e, _ := stats.ClopperPearson(fer.Errors, fer.Trials, 0.99); e.High < theory.NormalApprox(1008, 504, 2) {
+			t.Errorf("%s: FER %d/%d below the normal approximation %.3g", dec.Name(), fer.Errors, fer.Trials, theory.NormalApprox(1008, 504, 2))
+		}
 		return res{got[link.TapBER], float64(got["it"].Errors) / float64(got["it"].Trials) * 50}
 	}
 	bp, lbp := try(c.Decoder()), try(c.Decoder().Layer())
@@ -307,11 +313,18 @@ func TestLDPC36NearThreshold(t *testing.T) {
 	// The code is the PEG (20 000, 10 000) code with column weight 3 (rows of weight 6), stored as
 	// testdata so the suite need not rebuild it (-fec.long checks that LDPCPEG makes the same
 	// matrix). Sum-product with the layered schedule (the same fixed points as flooding).
-	// At 1.71 dB, 0.6 dB above the threshold, 60 frames (6e5 bits) with no bit error give a 99 %
-	// upper bound on the BER of 7.7e-6 for independent errors, below 1e-5; since errors of an LDPC
-	// code come in failed frames, the rigorous statement is FER < 7.4 % at 99 % (no frame failed).
-	// With -fec.long, 400 frames (4e6 bits, FER < 1.2 %). Below the threshold, at 0.8 dB, most
-	// frames fail.
+	//
+	// What is claimed, and why at frame level: the errors of an LDPC decoder come in failed
+	// frames (a frame either converges to the codeword or leaves hundreds of bits wrong), so the
+	// bits of a frame are not independent trials and a bit-level interval (e.g. "6e5 bits
+	// without error: BER < 7.7e-6") would overstate what was seen. The frames are independent
+	// (each draws from its own streams), so the claim is on the frame error rate, by the
+	// Clopper–Pearson interval on frames: at 1.70 dB, 0.6 dB above the threshold, no failed
+	// frame in 60 gives FER < 7.4 % at 99 %; with -fec.long, 1000 frames give FER < 0.46 %.
+	// The BER is at most the FER (a failed frame cannot lose more than all its bits), and that
+	// is all these frames say about it: the check "BER 1e-5 within 0.6 dB of the threshold"
+	// would need about 4.6e5 error-free frames (ln 100 / 1e-5) for a claim that holds however
+	// the errors cluster, and is not made here. Below the threshold, at 0.8 dB, most frames fail.
 	text := readGzip(t, "testdata/peg-20000-10000-3.alist.gz")
 	c := fec.LDPCAlist(text)
 	if err := c.Err(); err != nil {
@@ -324,19 +337,18 @@ func TestLDPC36NearThreshold(t *testing.T) {
 	}
 	sigma := 0.8809
 	threshold := theory.ToDB(1 / (2 * 0.5 * sigma * sigma))
-	frames := 60
+	frames, bound := 60, 0.074 // 1 − 0.01^(1/60) = 7.39 %: the 99 % bound of 0 failures in 60
 	if *longCodes {
-		frames = 400
+		frames, bound = 1000, 0.0046
 	}
 	dec := c.Decoder().Layer()
 	got := run(t, softLink(c.K, threshold+0.6, c.Encoder(), dec), frames, 21)
-	ber := got[link.TapBER]
-	e, _ := stats.ClopperPearson(ber.Errors, ber.Trials, 0.99)
-	fe, _ := stats.ClopperPearson(got[link.TapFER].Errors, got[link.TapFER].Trials, 0.99)
-	t.Logf("%.2f dB: %d bit errors in %d (99 %% bound %.2g), %d of %d frames (bound %.2g)", threshold+0.6,
-		ber.Errors, ber.Trials, e.High, got[link.TapFER].Errors, got[link.TapFER].Trials, fe.High)
-	if e.High >= 1e-5 {
-		t.Errorf("BER %d/%d: 99 %% upper bound %.2g not below 1e-5", ber.Errors, ber.Trials, e.High)
+	fer := got[link.TapFER]
+	fe, _ := stats.ClopperPearson(fer.Errors, fer.Trials, 0.99)
+	t.Logf("%.2f dB: %d of %d frames failed (FER 99 %% bound %.2g); %d bit errors in %d", threshold+0.6,
+		fer.Errors, fer.Trials, fe.High, got[link.TapBER].Errors, got[link.TapBER].Trials)
+	if fer.Errors > 0 || fe.High > bound {
+		t.Errorf("FER %d/%d: 99 %% upper bound %.2g, want no failed frame (bound %.2g)", fer.Errors, fer.Trials, fe.High, bound)
 	}
 	if na := theory.NormalApprox(c.N, c.K, threshold+0.6); fe.High < na {
 		t.Errorf("FER bound %.2g below the normal approximation %.2g", fe.High, na)

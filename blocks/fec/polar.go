@@ -32,9 +32,10 @@ import (
 // agree); the message and CRC bits sit in u at the information positions in increasing order.
 // The code is not systematic: a frame error usually costs about half the message bits.
 //
-// Frames must hold a multiple of K bits (encoder) and N coded bits (decoder).
+// Frames must hold a multiple of K bits (encoder) and Sent coded bits (decoder).
 type PolarCode struct {
-	N, K      int     // length and message bits
+	N, K      int     // length of the (mother) code and message bits
+	Sent      int     // coded bits sent per word: N, or fewer when punctured or shortened
 	CRCBits   int     // CRC length (0: none)
 	DesignSNR float64 // design Eb/N0 in dB
 
@@ -44,15 +45,20 @@ type PolarCode struct {
 	crc    uint32  // CRC polynomial without its leading term
 	name   string
 	err    error
+
+	// Punctured or shortened codes (polar_length.go); nil for a code of length N.
+	removed []int8  // per coded position: 0 sent, removedPunctured or removedShortened
+	forced  []bool  // per position of u: frozen because of the removed bits
+	sent    []int32 // the coded positions sent, increasing
 }
 
 // Polar is the polar code of length n (a power of two, 4…65536) with k message bits, designed
-// for Eb/N0 = 2 dB, without CRC.
+// for Eb/N0 = 2 dB, without CRC. PolarPunctured and PolarShortened make codes of other lengths.
 func Polar(n, k int) *PolarCode {
-	c := &PolarCode{N: n, K: k, DesignSNR: 2, name: fmt.Sprintf("fec.Polar(%d, %d)", n, k)}
+	c := &PolarCode{N: n, K: k, Sent: n, DesignSNR: 2, name: fmt.Sprintf("fec.Polar(%d, %d)", n, k)}
 	switch {
 	case n < 4 || n > 1<<16 || n&(n-1) != 0:
-		c.err = fmt.Errorf("%s: n = %d must be a power of two in 4…65536", c.name, n)
+		c.err = fmt.Errorf("%s: n = %d must be a power of two in 4…65536 (fec.PolarPunctured or fec.PolarShortened for other lengths)", c.name, n)
 	case k < 1 || k >= n:
 		c.err = fmt.Errorf("%s: k = %d must lie in 1…n−1", c.name, k)
 	}
@@ -82,7 +88,7 @@ func (c *PolarCode) CRC(length int) *PolarCode {
 		c.err = fmt.Errorf("%s: CRC(%d) must be one of 6, 8, 11, 16, 24", c.name, length)
 		return c
 	}
-	if c.K+length >= c.N {
+	if c.K+length >= c.Sent {
 		c.err = fmt.Errorf("%s: CRC(%d) leaves no frozen bit", c.name, length)
 		return c
 	}
@@ -108,12 +114,12 @@ func (c *PolarCode) Design(ebn0DB float64) *PolarCode {
 // Err reports bad parameters.
 func (c *PolarCode) Err() error { return c.err }
 
-// Rate is K/N.
+// Rate is K/Sent: K/N, or K/n for a punctured or shortened code of n coded bits.
 func (c *PolarCode) Rate() float64 {
-	if c.N == 0 {
+	if c.Sent == 0 {
 		return 1
 	}
-	return float64(c.K) / float64(c.N)
+	return float64(c.K) / float64(c.Sent)
 }
 
 // Frozen reports which positions of u are frozen to 0.
@@ -153,6 +159,9 @@ func invLogPhi(y float64) float64 {
 // means are the mean LLRs of the N synthetic channels at Eb/N0 (dB) by the Gaussian
 // approximation.
 func (c *PolarCode) means(ebn0DB float64) []float64 {
+	if c.removed != nil {
+		return meansOf(c.channelMeans(ebn0DB))
+	}
 	mu := make([]float64, 1, c.N)
 	mu[0] = 4 * c.Rate() * math.Pow(10, ebn0DB/10)
 	for l := 0; l < c.m; l++ {
@@ -175,6 +184,13 @@ func (c *PolarCode) construct() {
 	order := make([]int, n)
 	for i := range order {
 		order[i] = i
+	}
+	if c.forced != nil { // positions fixed by punctured or shortened bits rank last
+		for i, f := range c.forced {
+			if f {
+				mu[i] = math.Inf(-1)
+			}
+		}
 	}
 	sort.SliceStable(order, func(a, b int) bool { return mu[order[a]] > mu[order[b]] })
 	c.frozen = make([]bool, n)
@@ -269,7 +285,8 @@ func updateC(s []byte, m, lambda, phi int) {
 	}
 }
 
-// Encode writes the N-bit codeword of the K-bit message msg (one bit per byte) to x.
+// Encode writes the N-bit codeword of the K-bit message msg (one bit per byte) to x: the
+// mother code's word, removed bits included (the encoder block sends only Sent of them).
 func (c *PolarCode) Encode(msg, x []byte) {
 	u := make([]byte, c.N)
 	s := make([]byte, 4*c.N)
@@ -306,7 +323,7 @@ func (e *PolarEncoder) Name() string { return e.code.name + " encoder" }
 // Err reports bad parameters.
 func (e *PolarEncoder) Err() error { return e.code.err }
 
-// Rate is K/N.
+// Rate is K/Sent.
 func (e *PolarEncoder) Rate() float64 { return e.code.Rate() }
 
 // Process encodes f.Coded.
@@ -318,9 +335,20 @@ func (e *PolarEncoder) Process(f *link.Frame, _ *rng.Stream) error {
 	words := len(f.Coded) / c.K
 	e.u = link.GrowBytes(e.u, c.N)
 	e.s = link.GrowBytes(e.s, 4*c.N)
-	e.out = link.GrowBytes(e.out, words*c.N)
-	for w := 0; w < words; w++ {
-		c.encode(f.Coded[w*c.K:(w+1)*c.K], e.out[w*c.N:(w+1)*c.N], e.u, e.s)
+	e.out = link.GrowBytes(e.out, words*c.Sent)
+	if c.sent == nil {
+		for w := 0; w < words; w++ {
+			c.encode(f.Coded[w*c.K:(w+1)*c.K], e.out[w*c.N:(w+1)*c.N], e.u, e.s)
+		}
+	} else {
+		e.x = link.GrowBytes(e.x, c.N)
+		for w := 0; w < words; w++ {
+			c.encode(f.Coded[w*c.K:(w+1)*c.K], e.x, e.u, e.s)
+			out := e.out[w*c.Sent : (w+1)*c.Sent]
+			for i, p := range c.sent {
+				out[i] = e.x[p]
+			}
+		}
 	}
 	f.Coded = e.out
 	f.CodeRate *= c.Rate()

@@ -133,27 +133,37 @@ func (d *PolarDecoder) Process(f *link.Frame, _ *rng.Stream) error {
 	if hardIn {
 		n = len(f.Hard)
 	}
-	if err := multiple(n, c.N, "LLRs"); err != nil {
+	if err := multiple(n, c.Sent, "LLRs"); err != nil {
 		return err
 	}
 	if d.p == nil {
 		d.alloc()
 	}
-	words := n / c.N
+	words := n / c.Sent
 	d.ch = link.GrowFloats(d.ch, c.N)
 	d.out = link.GrowBytes(d.out, words*c.K)
 	d.words, d.crcFail = int64(words), 0
+	for i, r := range c.removed { // punctured bits: nothing known; shortened: known 0
+		d.ch[i] = 0
+		if r == removedShortened {
+			d.ch[i] = shortLLR
+		}
+	}
 	for w := 0; w < words; w++ {
-		for i := range d.ch {
+		for i := 0; i < c.Sent; i++ {
+			at := i
+			if c.sent != nil {
+				at = int(c.sent[i])
+			}
 			if hardIn {
-				d.ch[i] = 1 - 2*float64(f.Hard[w*c.N+i]&1)
+				d.ch[at] = 1 - 2*float64(f.Hard[w*c.Sent+i]&1)
 				continue
 			}
-			l := f.LLR[w*c.N+i]
+			l := f.LLR[w*c.Sent+i]
 			if l != l {
-				return fmt.Errorf("LLR %d is NaN", w*c.N+i)
+				return fmt.Errorf("LLR %d is NaN", w*c.Sent+i)
 			}
-			d.ch[i] = l
+			d.ch[at] = l
 		}
 		if !d.decodeWord(d.out[w*c.K : (w+1)*c.K]) {
 			d.crcFail++

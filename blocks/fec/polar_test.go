@@ -125,6 +125,11 @@ func TestPolarListOfOneIsSC(t *testing.T) {
 	if l4.Errors > l1.Errors || l1.Errors == 0 {
 		t.Errorf("list of 4: %d frame errors, SC %d", l4.Errors, l1.Errors)
 	}
+	for _, f := range []link.Tally{l1, l4} { // Polyanskiy, Poor and Verdú 2010
+		if e, _ := stats.ClopperPearson(f.Errors, f.Trials, 0.99); e.High < theory.NormalApprox(256, 128, 1.5) {
+			t.Errorf("FER %d/%d below the normal approximation %.3g", f.Errors, f.Trials, theory.NormalApprox(256, 128, 1.5))
+		}
+	}
 	// Noiseless: exact, and the CRC counter sees no failure.
 	c.CRC(8)
 	dec := c.Decoder().List(4)

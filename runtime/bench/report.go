@@ -29,6 +29,8 @@ type Options struct {
 //   - the compiled path with one worker on all cores, which adds the engine's hand-over of
 //     frames between goroutines;
 //   - the script and compiled paths on Workers workers against one worker (wall clock);
+//   - the custom-block case (combiner.go): a block the script writes itself, as a per-sample
+//     loop and with the vector helpers, interpreted, on CombinerBits(Bits) bits;
 //   - the peak heap at a quarter of the bits and at all of them (flat in bits).
 //
 // The script and compiled paths run the same link on the same streams, so they must count
@@ -124,6 +126,9 @@ func Report(ctx context.Context, o Options, w io.Writer) error {
 		if err := scaling(ctx, o, workers, one, w); err != nil {
 			return err
 		}
+	}
+	if err := combinerReport(ctx, o, w); err != nil {
+		return err
 	}
 	fmt.Fprintln(w)
 	return memory(ctx, o, w)

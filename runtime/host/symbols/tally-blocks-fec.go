@@ -27,6 +27,8 @@ func init() {
 		"MinSum":            reflect.ValueOf(fec.MinSum),
 		"OffsetMinSum":      reflect.ValueOf(fec.OffsetMinSum),
 		"Polar":             reflect.ValueOf(fec.Polar),
+		"PolarPunctured":    reflect.ValueOf(fec.PolarPunctured),
+		"PolarShortened":    reflect.ValueOf(fec.PolarShortened),
 		"RS":                reflect.ValueOf(fec.RS),
 		"RandomInterleaver": reflect.ValueOf(fec.RandomInterleaver),
 		"SoftInput":         reflect.ValueOf(fec.SoftInput),
