@@ -167,13 +167,14 @@ func TestPairedMerge(t *testing.T) {
 }
 
 // No errors in either variant: no difference shown, the ratio unknown, and the difference
-// bounded by the exact zero-count limit 1 − α^(1/n) at the frame level (Clopper and Pearson,
+// bounded by the exact zero-count limit 1 − α^(1/(n−1)) for a frame that differs from the
+// first, at the frame level (Clopper and Pearson,
 // Biometrika 26, 1934, one-sided, k = 0: UpperLimit here, computed from gonum's beta law).
 func TestPairedNoErrors(t *testing.T) {
 	const n = 3000
 	tally := PairedTally{Frames: n, TrialsA: 1000 * n, TrialsB: 1000 * n}
 	c := ComparePaired(tally, 0.95)
-	u, err := UpperLimit(0, n, 0.95)
+	u, err := UpperLimit(0, n-1, 0.95) // the frames after the first
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -201,7 +202,7 @@ func TestPairedIdenticalFrames(t *testing.T) {
 		tally.Add(ea, ea, 100, 100, 0, 0)
 	}
 	c := ComparePaired(tally, 0.95)
-	u, _ := UpperLimit(0, 400, 0.95)
+	u, _ := UpperLimit(0, 399, 0.95)
 	if !c.Same || c.Diff != 0 || c.P != 1 || c.Shown || c.Ratio != 1 {
 		t.Errorf("identical frames: %+v", c)
 	}
@@ -225,12 +226,19 @@ func TestPairedEdges(t *testing.T) {
 	var one PairedTally
 	one.Add(3, 5, 100, 100, 0, 2)
 	c := ComparePaired(one, 0.95)
-	// One frame is "every frame identical": the exact bound with n = 1, q = 1 − α.
-	if c.Shown || math.Abs(c.DiffLow-(0.02-0.95*1.02)) > 1e-12 || math.Abs(c.DiffHigh-(0.02+0.95*0.98)) > 1e-12 {
+	// One frame shows nothing of the spread: the whole range, no evidence.
+	if c.Shown || c.DiffLow != -1 || c.DiffHigh != 1 || c.P != 1 || math.Abs(c.Diff-0.02) > 1e-15 {
 		t.Errorf("one frame: %+v", c)
 	}
+	// Two frames alike, 2 errors more in B: the exact bound with one frame after the first,
+	// q = 1 − α, and P = 1/(1 + 0.02).
+	one.Add(3, 5, 100, 100, 0, 2)
+	c = ComparePaired(one, 0.95)
+	if c.Shown || math.Abs(c.DiffLow-(0.02-0.95*1.02)) > 1e-12 || math.Abs(c.DiffHigh-(0.02+0.95*0.98)) > 1e-12 {
+		t.Errorf("two frames alike: %+v", c)
+	}
 	if want := 1 / 1.02; math.Abs(c.P-want) > 1e-12 {
-		t.Errorf("one frame P = %g, want (1+|c|)^−1 = %g", c.P, want)
+		t.Errorf("two frames alike: P = %g, want (1+|c|)^−1 = %g", c.P, want)
 	}
 	z := ComparePaired(PairedTally{}, 0.95)
 	if z.Shown || z.P != 1 || !math.IsNaN(z.Diff) || z.DiffLow != -1 || z.DiffHigh != 1 || z.Verdict != "no frames yet" {
