@@ -145,3 +145,42 @@ func TestTypedSurfaceRunsAndCompiles(t *testing.T) {
 		t.Fatalf("compiled table differs from interpreted\n%s\nvs\n%s", got, want)
 	}
 }
+
+// A frame length the blocks cannot take whole is rounded up, said once in the progress output
+// and kept in the summary's notes; .Exact() keeps it, and the modulator then refuses it with
+// its own message. QPSK takes 2 bits a symbol: 1001 bits become 1002 (common practice, no
+// source).
+func TestFrameRoundedAndSaidOnce(t *testing.T) {
+	body := `	x := sim.New("t")
+	ebn0 := x.Axis("ebn0_db", 0, 2, 4)
+	x.Curve("QPSK", func(p sim.Point) *link.Link {
+		m := modem.QPSK()
+		return link.Chain(source.Random(1001), m.Mod(), channel.AWGN(ebn0.At(p)), m.Demod())
+	})
+	x.Stop(stop.Bits(2000))
+	x.Run()`
+	p := typedScript(t, body)
+	var log bytes.Buffer
+	if err := Run(context.Background(), p, Config{Workers: 2, Log: &log}); err != nil {
+		t.Fatal(err)
+	}
+	const said = "Frames rounded up from 1001 to 1002 source bits so that every block takes whole units (modem.QPSK.Mod takes 2 bits at a time)"
+	if n := strings.Count(log.String(), said); n != 1 {
+		t.Errorf("the rounding is said %d times in the progress output, want once:\n%s", n, log.String())
+	}
+	sum, err := os.ReadFile(filepath.Join(strings.TrimSuffix(p, ".go"), "README.md"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(sum), "Frames rounded up from 1001 to 1002") {
+		t.Errorf("README.md does not say the frames were rounded:\n%s", sum)
+	}
+	if tab := string(table(t, p)); !strings.Contains(tab, "\n0,QPSK,2004,") {
+		t.Errorf("want 2 frames of 1002 bits at 0 dB:\n%s", tab)
+	}
+	p = typedScript(t, strings.Replace(body, "source.Random(1001)", "source.Random(1001).Exact()", 1))
+	err = Run(context.Background(), p, quiet(1))
+	if err == nil || !strings.Contains(err.Error(), "1001 coded bits do not fill whole 2-bit symbols") {
+		t.Errorf("Exact: %v", err)
+	}
+}

@@ -37,8 +37,9 @@ var ErrInterrupted = errors.New("run interrupted")
 // experiment is a declared experiment with the options it runs under.
 type experiment struct {
 	*Spec
-	opts *Options
-	long *longrun.Session // checkpoint, shard or replay (nil: none)
+	opts   *Options
+	long   *longrun.Session // checkpoint, shard or replay (nil: none)
+	frames frameFit         // frame lengths rounded up (framefit.go)
 }
 
 // Run runs a script's experiment (sim.Experiment.Run): every point, then table.csv, run.json,
@@ -165,6 +166,7 @@ func (x *experiment) execute() (*result.Run, error) {
 	run.End = time.Now().UTC()
 	run.Shards = x.long.Record()
 	alignTaps(run)
+	x.frameNotes(run)
 	x.findTargets(run)
 	x.checkLimits(run)
 	if !run.Interrupted {
@@ -191,6 +193,7 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		if l == nil {
 			return nil, fmt.Errorf("sim: the Link function returned nil for point %d (%s)", pt.Index, pt.text())
 		}
+		x.fit(l)
 		x.estimateOn(l)
 		return l, nil
 	}
