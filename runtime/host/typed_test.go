@@ -164,7 +164,7 @@ func TestFrameRoundedAndSaidOnce(t *testing.T) {
 	if err := Run(context.Background(), p, Config{Workers: 2, Log: &log}); err != nil {
 		t.Fatal(err)
 	}
-	const said = "Frames rounded up from 1001 to 1002 source bits so that every block takes whole units (modem.QPSK.Mod takes 2 bits at a time)"
+	const said = "curve=QPSK: frames rounded up from 1001 to 1002 source bits so that every block takes whole units (modem.QPSK.Mod takes 2 bits at a time)"
 	if n := strings.Count(log.String(), said); n != 1 {
 		t.Errorf("the rounding is said %d times in the progress output, want once:\n%s", n, log.String())
 	}
@@ -172,7 +172,7 @@ func TestFrameRoundedAndSaidOnce(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !strings.Contains(string(sum), "Frames rounded up from 1001 to 1002") {
+	if !strings.Contains(string(sum), "frames rounded up from 1001 to 1002") {
 		t.Errorf("README.md does not say the frames were rounded:\n%s", sum)
 	}
 	if tab := string(table(t, p)); !strings.Contains(tab, "\n0,QPSK,2004,") {

@@ -2,6 +2,7 @@ package runner
 
 import (
 	"fmt"
+	"strings"
 	"sync"
 
 	"tally/blocks/link"
@@ -19,7 +20,7 @@ type frameFit struct {
 }
 
 // fit rounds l's frame length and tells the user the first time a change is made.
-func (x *experiment) fit(l *link.Link) {
+func (x *experiment) fit(l *link.Link, pt Point) {
 	if l == nil {
 		return
 	}
@@ -29,6 +30,13 @@ func (x *experiment) fit(l *link.Link) {
 	}
 	msg := fmt.Sprintf("Frames rounded up from %d to %d source bits so that every block takes whole units (%s); "+
 		"source.Random(%d).Exact() keeps the length as typed.", from, to, why, from)
+	if len(pt.Names) > 1 { // the curve it happened on
+		var on []string
+		for _, n := range pt.Names[1:] {
+			on = append(on, n+"="+pt.Label(n))
+		}
+		msg = strings.Join(on, " ") + ": f" + msg[1:]
+	}
 	f := &x.frames
 	f.mu.Lock()
 	defer f.mu.Unlock()

@@ -193,7 +193,7 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		if l == nil {
 			return nil, fmt.Errorf("sim: the Link function returned nil for point %d (%s)", pt.Index, pt.text())
 		}
-		x.fit(l)
+		x.fit(l, pt)
 		x.estimateOn(l)
 		return l, nil
 	}
