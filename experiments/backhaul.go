@@ -32,24 +32,21 @@ import (
 
 func main() {
 	x := sim.New("Farmland backhaul hop: 16-QAM specified at BER 1e-12")
-	x.Sweep("ebn0_db", sim.Range(8, 21, 1)...)
-	x.SweepLabels("path", "ideal", "amplifier", "amplifier, counted")
-	x.Link(func(p sim.Point) *link.Link {
-		m := modem.QAM(16)
-		db := p.Get("ebn0_db")
-		if p.Label("path") == "ideal" {
-			return link.Chain(source.Random(4096), m.Mod(), channel.AWGN(db), m.Demod()).Estimate("importance")
-		}
-		rrc := pulse.RRC(0.25)
-		l := link.Chain(source.Random(4096), m.Mod(), rrc.Shape(), impair.Rapp(6, 2), channel.AWGN(db),
+	ebn0 := x.Axis("ebn0_db", sim.Range(8, 21, 1)...)
+	amplifier := func(p sim.Point) *link.Link { // RRC pulses, a Rapp amplifier, a matched filter
+		m, rrc := modem.QAM(16), pulse.RRC(0.25)
+		return link.Chain(source.Random(4096), m.Mod(), rrc.Shape(), impair.Rapp(6, 2), channel.AWGN(ebn0.At(p)),
 			rrc.Match(), pulse.Sample(), m.Demod())
-		if p.Label("path") == "amplifier" {
-			l.Estimate("semi-analytic")
-		}
-		return l
-	})
+	}
+	qam16 := theory.QAMCurve(16)
+	x.Legend("path").TheoryName("qam16")
+	x.Curve("ideal", func(p sim.Point) *link.Link {
+		m := modem.QAM(16)
+		return link.Chain(source.Random(4096), m.Mod(), channel.AWGN(ebn0.At(p)), m.Demod()).Estimate("importance")
+	}).Theory(qam16)
+	x.Curve("amplifier", func(p sim.Point) *link.Link { return amplifier(p).Estimate("semi-analytic") }).Theory(qam16)
+	x.Curve("amplifier, counted", amplifier).Theory(qam16)
 	x.Stop(stop.Errors(100), stop.Bits(1e7))
-	x.Theory("qam16", func(p sim.Point) float64 { return theory.QAM(16, p.Get("ebn0_db")) })
-	x.Target(1e-12, "qam16")
+	x.Target(1e-12)
 	x.Run()
 }

@@ -37,37 +37,33 @@ const block = 512 // message bits per event
 
 func main() {
 	x := sim.New("Glacier seismometer relay: 512-bit blocks, four rate-1/2 codes")
-	x.Sweep("ebn0_db", sim.Range(0.5, 4, 0.25)...)
-	x.SweepLabels("code", "conv", "ldpc", "polar_sc", "polar_l8")
-	x.Link(func(p sim.Point) *link.Link {
+	ebn0 := x.Axis("ebn0_db", sim.Range(0.5, 4, 0.25)...)
+	relay := func(p sim.Point, enc, dec link.Block) *link.Link { // BPSK over AWGN, LLRs to the decoder
 		m := modem.BPSK()
-		ch := channel.AWGN(p.Get("ebn0_db"))
-		src := source.Random(block)
-		switch p.Label("code") {
-		case "ldpc":
-			c := fec.LDPCPEG(2*block, block, 3)
-			return link.Chain(src, c.Encoder(), m.Mod(), ch, m.Demod().LogMAP(), c.Decoder().Layer())
-		case "polar_sc":
-			c := fec.Polar(2*block, block)
-			return link.Chain(src, c.Encoder(), m.Mod(), ch, m.Demod().LogMAP(), c.Decoder())
-		case "polar_l8":
-			c := fec.Polar(2*block, block).CRC(16)
-			return link.Chain(src, c.Encoder(), m.Mod(), ch, m.Demod().LogMAP(), c.Decoder().List(8))
-		}
+		return link.Chain(source.Random(block), enc, m.Mod(), channel.AWGN(ebn0.At(p)), m.Demod().LogMAP(), dec)
+	}
+	limit := theory.NormalApproxCurve(2*block, block)
+	x.Legend("code").TheoryName("normal_approx")
+	x.Curve("conv", func(p sim.Point) *link.Link {
 		c := fec.Conv()
-		return link.Chain(src, c.Encoder(), m.Mod(), ch, m.Demod().LogMAP(), c.Decoder())
-	})
+		return relay(p, c.Encoder(), c.Decoder())
+	}).Limit(link.TapFER, theory.NormalApproxCurve(2*(block+6), block)) // the tail: 1036 coded bits
+	x.Curve("ldpc", func(p sim.Point) *link.Link {
+		c := fec.LDPCPEG(2*block, block, 3)
+		return relay(p, c.Encoder(), c.Decoder().Layer())
+	}).Limit(link.TapFER, limit)
+	x.Curve("polar_sc", func(p sim.Point) *link.Link {
+		c := fec.Polar(2*block, block)
+		return relay(p, c.Encoder(), c.Decoder())
+	}).Limit(link.TapFER, limit)
+	x.Curve("polar_l8", func(p sim.Point) *link.Link {
+		c := fec.Polar(2*block, block).CRC(16)
+		return relay(p, c.Encoder(), c.Decoder().List(8))
+	}).Limit(link.TapFER, limit)
 	// Frame errors are what count: 50 of them, or 2e6 bits (about 4000 blocks) per point; a
 	// curve ends after its first point with no error in those bits.
-	x.Stop(stop.Errors(50).Tap("fer"), stop.Bits(2e6))
+	x.Stop(stop.Errors(50).Tap(link.TapFER), stop.Bits(2e6))
 	x.StopSweep(stop.Floor(2e-6))
-	x.Limit("fer", "normal_approx", func(p sim.Point) float64 {
-		n := 2 * block
-		if p.Label("code") == "conv" {
-			n = 2 * (block + 6)
-		}
-		return theory.NormalApprox(n, block, p.Get("ebn0_db"))
-	})
-	x.TargetOn("fer", 1e-2, "normal_approx")
+	x.TargetOn(link.TapFER, 1e-2)
 	x.Run()
 }

@@ -33,31 +33,30 @@ func main() {
 		light   = 3e8   // m/s
 	)
 	x := sim.New("Tractor-to-barn telemetry: QPSK in Rayleigh fading")
-	x.Sweep("ebn0_db", sim.Range(0, 30, 3)...)
-	x.SweepLabels("speed", "walking", "quad_bike")
-	x.Link(func(p sim.Point) *link.Link {
-		m := modem.QPSK()
-		rrc := pulse.RRC(0.35).Span(8).SPS(4)
-		v := 1.4 // m/s
-		if p.Label("speed") == "quad_bike" {
-			v = 12
-		}
+	ebn0 := x.Axis("ebn0_db", sim.Range(0, 30, 3)...)
+	tractor := func(v float64) func(p sim.Point) *link.Link { // the link at v m/s
 		fd := v * carrier / light // maximum Doppler shift, Hz
-		return link.Chain(
-			source.Random(2048),
-			m.Mod(),
-			rrc.Shape(),
-			channel.Rayleigh().Doppler(fd/baud),
-			channel.AWGN(p.Get("ebn0_db")),
-			rrc.Match(),
-			pulse.Sample(),
-			channel.KnownGain(),
-			m.Demod(),
-		)
-	})
+		return func(p sim.Point) *link.Link {
+			m := modem.QPSK()
+			rrc := pulse.RRC(0.35).Span(8).SPS(4)
+			return link.Chain(
+				source.Random(2048),
+				m.Mod(),
+				rrc.Shape(),
+				channel.Rayleigh().Doppler(fd/baud),
+				channel.AWGN(ebn0.At(p)),
+				rrc.Match(),
+				pulse.Sample(),
+				channel.KnownGain(),
+				m.Demod(),
+			)
+		}
+	}
+	x.Reference("awgn", theory.QPSK)
+	x.Legend("speed").TheoryName("rayleigh")
+	x.Curve("walking", tractor(1.4)).Theory(theory.QPSKRayleigh)
+	x.Curve("quad_bike", tractor(12)).Theory(theory.QPSKRayleigh)
 	x.Stop(stop.Errors(3000), stop.Bits(3e6)) // many errors: at walking pace they come in bursts
-	x.Theory("awgn", func(p sim.Point) float64 { return theory.QPSK(p.Get("ebn0_db")) })
-	x.Theory("rayleigh", func(p sim.Point) float64 { return theory.QPSKRayleigh(p.Get("ebn0_db")) })
-	x.Target(1e-3, "rayleigh")
+	x.Target(1e-3)
 	x.Run()
 }

@@ -21,21 +21,21 @@ import (
 
 func main() {
 	x := sim.New("Campus rooftop link: 64-QAM against ADC resolution")
-	x.Sweep("ebn0_db", sim.Range(10, 24, 2)...)
-	x.SweepLabels("adc", "3 bits", "4 bits", "5 bits", "6 bits", "ideal")
-	bits := []int{3, 4, 5, 6, 0} // per label; 0 bits is no converter at all
-	x.Link(func(p sim.Point) *link.Link {
-		m := modem.QAM(64)
-		return link.Chain(
-			source.Random(6000),
-			m.Mod(),
-			channel.AWGN(p.Get("ebn0_db")),
-			impair.ADC(bits[p.Int("adc")]).Load(9),
-			m.Demod(),
-		)
-	})
+	ebn0 := x.Axis("ebn0_db", sim.Range(10, 24, 2)...)
+	adc := func(bits int) func(p sim.Point) *link.Link { // 0 bits is no converter at all
+		return func(p sim.Point) *link.Link {
+			m := modem.QAM(64)
+			return link.Chain(source.Random(6000), m.Mod(), channel.AWGN(ebn0.At(p)), impair.ADC(bits).Load(9), m.Demod())
+		}
+	}
+	qam64 := theory.QAMCurve(64) // every resolution against the ideal converter's theory
+	x.Legend("adc").TheoryName("qam64")
+	x.Curve("3 bits", adc(3)).Theory(qam64)
+	x.Curve("4 bits", adc(4)).Theory(qam64)
+	x.Curve("5 bits", adc(5)).Theory(qam64)
+	x.Curve("6 bits", adc(6)).Theory(qam64)
+	x.Curve("ideal", adc(0)).Theory(qam64)
 	x.Stop(stop.Errors(200), stop.Bits(3e6))
-	x.Theory("qam64", func(p sim.Point) float64 { return theory.QAM(64, p.Get("ebn0_db")) })
-	x.Target(1e-4, "qam64")
+	x.Target(1e-4)
 	x.Run()
 }

@@ -18,56 +18,23 @@ import (
 	"tally/runtime/sim"
 )
 
-// pick is the modem for a sweep label.
-func pick(name string) *modem.Modem {
-	switch name {
-	case "QPSK":
-		return modem.QPSK()
-	case "8-PSK":
-		return modem.PSK(8)
-	case "16-QAM":
-		return modem.QAM(16)
-	case "DBPSK":
-		return modem.DBPSK()
-	case "BFSK-NC":
-		return modem.BFSKNoncoherent()
-	}
-	return modem.BPSK()
-}
-
-// closedForm is the theory curve for a sweep label.
-func closedForm(name string, ebn0 float64) float64 {
-	switch name {
-	case "QPSK":
-		return theory.QPSK(ebn0)
-	case "8-PSK":
-		return theory.PSK(8, ebn0)
-	case "16-QAM":
-		return theory.QAM(16, ebn0)
-	case "DBPSK":
-		return theory.DBPSK(ebn0)
-	case "BFSK-NC":
-		return theory.BFSKNoncoherent(ebn0)
-	}
-	return theory.BPSK(ebn0)
-}
-
 func main() {
 	x := sim.New("Riverbank gauge uplink: six modems over AWGN")
-	x.Sweep("ebn0_db", sim.Range(0, 14, 1)...)
-	x.SweepLabels("modem", "BPSK", "QPSK", "8-PSK", "16-QAM", "DBPSK", "BFSK-NC")
-	x.Link(func(p sim.Point) *link.Link {
-		m := pick(p.Label("modem"))
-		return link.Chain(
-			source.Random(2400), // a multiple of 1, 2, 3 and 4 bits per symbol
-			m.Mod(),
-			channel.AWGN(p.Get("ebn0_db")),
-			m.Demod(),
-		)
-	})
+	ebn0 := x.Axis("ebn0_db", sim.Range(0, 14, 1)...)
+	gauge := func(m *modem.Modem) func(p sim.Point) *link.Link { // the gauge's link with modem m
+		return func(p sim.Point) *link.Link {
+			return link.Chain(source.Random(2400), m.Mod(), channel.AWGN(ebn0.At(p)), m.Demod())
+		}
+	}
+	x.Legend("modem")
+	x.Curve("BPSK", gauge(modem.BPSK())).Theory(theory.BPSK)
+	x.Curve("QPSK", gauge(modem.QPSK())).Theory(theory.QPSK)
+	x.Curve("8-PSK", gauge(modem.PSK(8))).Theory(theory.PSKCurve(8))
+	x.Curve("16-QAM", gauge(modem.QAM(16))).Theory(theory.QAMCurve(16))
+	x.Curve("DBPSK", gauge(modem.DBPSK())).Theory(theory.DBPSK)
+	x.Curve("BFSK-NC", gauge(modem.BFSKNoncoherent())).Theory(theory.BFSKNoncoherent)
 	x.Stop(stop.Errors(100), stop.Bits(3e6))
 	x.StopSweep(stop.Floor(1e-5))
-	x.Theory("theory", func(p sim.Point) float64 { return closedForm(p.Label("modem"), p.Get("ebn0_db")) })
-	x.Target(1e-4, "theory")
+	x.Target(1e-4)
 	x.Run()
 }

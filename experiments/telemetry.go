@@ -32,50 +32,38 @@ import (
 	"tally/runtime/sim"
 )
 
-const record = 4 * 188 * 8 // bits per frame: four RS messages, a multiple of 4 for Hamming
+const record = 4 * 188 * 8 // bits per frame: four RS messages
 
 func main() {
 	x := sim.New("Ice-buoy telemetry: coded and uncoded BPSK")
-	x.Sweep("ebn0_db", sim.Range(0, 11, 0.5)...)
-	x.SweepLabels("code", "uncoded", "hamming", "conv_hard", "conv_soft", "rs_conv")
-	x.Link(func(p sim.Point) *link.Link {
+	ebn0 := x.Axis("ebn0_db", sim.Range(0, 11, 0.5)...)
+	capped := func(bound func(float64) float64) func(float64) float64 { // a union bound, at most 1/2
+		return func(db float64) float64 { return math.Min(bound(db), 0.5) }
+	}
+	x.Legend("code").TheoryName("expected")
+	x.Curve("uncoded", func(p sim.Point) *link.Link {
 		m := modem.BPSK()
-		ch := channel.AWGN(p.Get("ebn0_db"))
-		src := source.Random(record)
-		switch p.Label("code") {
-		case "hamming":
-			h := fec.Hamming74()
-			return link.Chain(src, h.Encoder(), m.Mod(), ch, m.Demod(), h.Decoder())
-		case "conv_hard":
-			c := fec.Conv()
-			return link.Chain(src, c.Encoder(), m.Mod(), ch, m.Demod(), c.Decoder())
-		case "conv_soft":
-			c := fec.Conv()
-			return link.Chain(src, c.Encoder(), m.Mod(), ch, m.Demod().LogMAP(), c.Decoder())
-		case "rs_conv":
-			rs, il, c := fec.RS(204, 188), fec.BlockInterleaver(4, 204).Group(8), fec.Conv()
-			return link.Chain(src, rs.Encoder(), il.Interleave(), c.Encoder(), m.Mod(), ch,
-				m.Demod().LogMAP(), c.Decoder(), il.Deinterleave(), rs.Decoder())
-		}
-		// Uncoded: no decoder, so no pre-FEC tap (its columns stay empty in the table).
-		return link.Chain(src, m.Mod(), ch, m.Demod())
+		return link.Chain(source.Random(record), m.Mod(), channel.AWGN(ebn0.At(p)), m.Demod())
+	}).Theory(theory.BPSK)
+	x.Curve("hamming", func(p sim.Point) *link.Link {
+		h, m := fec.Hamming74(), modem.BPSK()
+		return link.Chain(source.Random(record), h.Encoder(), m.Mod(), channel.AWGN(ebn0.At(p)), m.Demod(), h.Decoder())
+	}).Theory(theory.Hamming74)
+	x.Curve("conv_hard", func(p sim.Point) *link.Link {
+		c, m := fec.Conv(), modem.BPSK()
+		return link.Chain(source.Random(record), c.Encoder(), m.Mod(), channel.AWGN(ebn0.At(p)), m.Demod(), c.Decoder())
+	}).Theory(capped(theory.ConvK7Hard))
+	x.Curve("conv_soft", func(p sim.Point) *link.Link {
+		c, m := fec.Conv(), modem.BPSK()
+		return link.Chain(source.Random(record), c.Encoder(), m.Mod(), channel.AWGN(ebn0.At(p)), m.Demod().LogMAP(), c.Decoder())
+	}).Theory(capped(theory.ConvK7Soft))
+	x.Curve("rs_conv", func(p sim.Point) *link.Link { // no closed form: no theory
+		rs, il, c, m := fec.RS(204, 188), fec.BlockInterleaver(4, 204).Group(8), fec.Conv(), modem.BPSK()
+		return link.Chain(source.Random(record), rs.Encoder(), il.Interleave(), c.Encoder(), m.Mod(), channel.AWGN(ebn0.At(p)),
+			m.Demod().LogMAP(), c.Decoder(), il.Deinterleave(), rs.Decoder())
 	})
 	x.Stop(stop.Errors(100), stop.Bits(1e7))
 	x.StopSweep(stop.Floor(1e-6))
-	x.Theory("expected", func(p sim.Point) float64 {
-		db := p.Get("ebn0_db")
-		switch p.Label("code") {
-		case "uncoded":
-			return theory.BPSK(db)
-		case "hamming":
-			return theory.Hamming74(db)
-		case "conv_hard":
-			return math.Min(theory.ConvK7Hard(db), 0.5)
-		case "conv_soft":
-			return math.Min(theory.ConvK7Soft(db), 0.5)
-		}
-		return math.NaN() // no closed form for the concatenated code: left out of table and plot
-	})
-	x.Target(1e-5, "expected")
+	x.Target(1e-5)
 	x.Run()
 }

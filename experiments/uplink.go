@@ -17,23 +17,16 @@ import (
 
 func main() {
 	x := sim.New("Orchard soil-probe uplink: BPSK and QPSK over AWGN")
-	x.Sweep("ebn0_db", sim.Range(0, 10, 1)...)
-	x.SweepLabels("modem", "BPSK", "QPSK")
-	x.Link(func(p sim.Point) *link.Link {
-		m := modem.BPSK()
-		if p.Label("modem") == "QPSK" {
-			m = modem.QPSK()
+	ebn0 := x.Axis("ebn0_db", sim.Range(0, 10, 1)...)
+	probe := func(m *modem.Modem) func(p sim.Point) *link.Link { // the probe's link with modem m
+		return func(p sim.Point) *link.Link {
+			return link.Chain(source.Random(2048), m.Mod(), channel.AWGN(ebn0.At(p)), m.Demod())
 		}
-		return link.Chain(
-			source.Random(2048),
-			m.Mod(),
-			channel.AWGN(p.Get("ebn0_db")),
-			m.Demod(),
-		)
-	})
+	}
+	x.Legend("modem").TheoryName("coherent")
+	x.Curve("BPSK", probe(modem.BPSK())).Theory(theory.BPSK)
+	x.Curve("QPSK", probe(modem.QPSK())).Theory(theory.QPSK).Scatter(6) // received symbols at 6 dB
 	x.Stop(stop.Errors(100), stop.Bits(1e8))
-	x.Theory("coherent", func(p sim.Point) float64 { return theory.BPSK(p.Get("ebn0_db")) })
-	x.Target(1e-5, "coherent")
-	x.Scatter(6, 1) // the received QPSK symbols at 6 dB
+	x.Target(1e-5) // each curve against its own theory
 	x.Run()
 }

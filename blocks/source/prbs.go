@@ -34,8 +34,9 @@ type PRBSSequence struct {
 	N        int  // bits per frame, ≥ 1
 	Inverted bool // emit the complement of the register output
 
-	tap int // k of x^n + x^k + 1
-	buf []byte
+	tap   int // k of x^n + x^k + 1
+	buf   []byte
+	exact bool // Exact: never rounded (framelen.go)
 }
 
 // prbsTaps maps an order n to the k of its O.150 polynomial x^n + x^k + 1.

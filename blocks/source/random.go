@@ -10,8 +10,9 @@ import (
 
 // RandomBits emits N independent equiprobable bits per frame, drawn from the frame's stream.
 type RandomBits struct {
-	N   int // bits per frame, ≥ 1
-	buf []byte
+	N     int // bits per frame, ≥ 1
+	buf   []byte
+	exact bool // Exact: never rounded (framelen.go)
 }
 
 // Random is the usual data source: n random bits per frame.

@@ -69,7 +69,7 @@ func TestScriptSurfaceReachesNothingBehind(t *testing.T) {
 		names = append(names, n)
 	}
 	sort.Strings(names)
-	if want := []string{"DefaultSeed", "Experiment", "New", "Point", "Range"}; !slices.Equal(names, want) {
+	if want := []string{"Axis", "Choice", "Curve", "DefaultSeed", "Experiment", "New", "Point", "Range"}; !slices.Equal(names, want) {
 		t.Errorf("package sim exports %v, want %v", names, want)
 	}
 }

@@ -28,8 +28,9 @@ import (
 // only; how it runs (workers, seed override, checkpoints) and where its outputs go come from
 // the command line or the host, never from the script.
 type Experiment struct {
-	spec runner.Spec
-	opts *runner.Options
+	spec  runner.Spec
+	opts  *runner.Options
+	typed typed // curves and what goes with them (curve.go)
 }
 
 // DefaultSeed is the seed of a run that names none; it is recorded in every run record.
@@ -128,7 +129,8 @@ func (x *Experiment) Theory(name string, fn func(p Point) float64) *Experiment {
 }
 
 // Target asks for the x value (Eb/N0, say) at which the BER crosses rate, and, when a theory
-// curve is named, the penalty in dB against it.
+// curve is named, the penalty in dB against it. With curves that have their own theory
+// (Experiment.Curve), Target(rate) compares each curve with its own.
 func (x *Experiment) Target(rate float64, against ...string) *Experiment {
 	return x.TargetOn(link.TapBER, rate, against...)
 }
@@ -201,7 +203,10 @@ func (x *Experiment) Scatter(values ...float64) *Experiment {
 // Run runs every point and writes table.csv, run.json, the plots and README.md into the folder
 // named after the script beside it. A mistake stops the script with file:line: message. A
 // script runs one experiment: a second Run is refused.
-func (x *Experiment) Run() { runner.Run(&x.spec, x.opts) }
+func (x *Experiment) Run() {
+	x.settle()
+	runner.Run(&x.spec, x.opts)
+}
 
 func isColumnName(s string) bool {
 	if s == "" {

@@ -50,12 +50,14 @@ func init() {
 		"Estimator":        reflect.ValueOf((*link.Estimator)(nil)),
 		"EstimatorCheck":   reflect.ValueOf((*link.EstimatorCheck)(nil)),
 		"Frame":            reflect.ValueOf((*link.Frame)(nil)),
+		"Framed":           reflect.ValueOf((*link.Framed)(nil)),
 		"FuncBlock":        reflect.ValueOf((*link.FuncBlock)(nil)),
 		"Kind":             reflect.ValueOf((*link.Kind)(nil)),
 		"LinearAfterNoise": reflect.ValueOf((*link.LinearAfterNoise)(nil)),
 		"Link":             reflect.ValueOf((*link.Link)(nil)),
 		"Named":            reflect.ValueOf((*link.Named)(nil)),
 		"Nature":           reflect.ValueOf((*link.Nature)(nil)),
+		"Sized":            reflect.ValueOf((*link.Sized)(nil)),
 		"Tally":            reflect.ValueOf((*link.Tally)(nil)),
 
 		// interface wrapper definitions
@@ -63,9 +65,11 @@ func init() {
 		"_Checked":          reflect.ValueOf((*_tally_blocks_link_Checked)(nil)),
 		"_Coder":            reflect.ValueOf((*_tally_blocks_link_Coder)(nil)),
 		"_EstimatorCheck":   reflect.ValueOf((*_tally_blocks_link_EstimatorCheck)(nil)),
+		"_Framed":           reflect.ValueOf((*_tally_blocks_link_Framed)(nil)),
 		"_LinearAfterNoise": reflect.ValueOf((*_tally_blocks_link_LinearAfterNoise)(nil)),
 		"_Named":            reflect.ValueOf((*_tally_blocks_link_Named)(nil)),
 		"_Nature":           reflect.ValueOf((*_tally_blocks_link_Nature)(nil)),
+		"_Sized":            reflect.ValueOf((*_tally_blocks_link_Sized)(nil)),
 	}
 }
 
@@ -109,6 +113,20 @@ func (W _tally_blocks_link_EstimatorCheck) CheckEstimator(e link.Estimator) erro
 	return W.WCheckEstimator(e)
 }
 
+// _tally_blocks_link_Framed is an interface wrapper for Framed type
+type _tally_blocks_link_Framed struct {
+	IValue     interface{}
+	WFrameOut  func(n int) int
+	WFrameUnit func() int
+}
+
+func (W _tally_blocks_link_Framed) FrameOut(n int) int {
+	return W.WFrameOut(n)
+}
+func (W _tally_blocks_link_Framed) FrameUnit() int {
+	return W.WFrameUnit()
+}
+
 // _tally_blocks_link_LinearAfterNoise is an interface wrapper for LinearAfterNoise type
 type _tally_blocks_link_LinearAfterNoise struct {
 	IValue          interface{}
@@ -137,4 +155,22 @@ type _tally_blocks_link_Nature struct {
 
 func (W _tally_blocks_link_Nature) Nature() link.Kind {
 	return W.WNature()
+}
+
+// _tally_blocks_link_Sized is an interface wrapper for Sized type
+type _tally_blocks_link_Sized struct {
+	IValue         interface{}
+	WFrameLen      func() int
+	WFrameLenExact func() bool
+	WSetFrameLen   func(n int)
+}
+
+func (W _tally_blocks_link_Sized) FrameLen() int {
+	return W.WFrameLen()
+}
+func (W _tally_blocks_link_Sized) FrameLenExact() bool {
+	return W.WFrameLenExact()
+}
+func (W _tally_blocks_link_Sized) SetFrameLen(n int) {
+	W.WSetFrameLen(n)
 }

@@ -20,6 +20,9 @@ func init() {
 		"Range":       reflect.ValueOf(sim.Range),
 
 		// type definitions
+		"Axis":       reflect.ValueOf((*sim.Axis)(nil)),
+		"Choice":     reflect.ValueOf((*sim.Choice)(nil)),
+		"Curve":      reflect.ValueOf((*sim.Curve)(nil)),
 		"Experiment": reflect.ValueOf((*sim.Experiment)(nil)),
 		"Point":      reflect.ValueOf((*sim.Point)(nil)),
 	}

@@ -37,9 +37,10 @@ var ErrInterrupted = errors.New("run interrupted")
 // experiment is a declared experiment with the options it runs under.
 type experiment struct {
 	*Spec
-	opts *Options
-	long *longrun.Session // checkpoint, shard or replay (nil: none)
-	tap  string           // the governing tap: the one the progress line counts
+	opts   *Options
+	long   *longrun.Session // checkpoint, shard or replay (nil: none)
+	tap    string           // the governing tap: the one the progress line counts
+	frames frameFit         // frame lengths rounded up (framefit.go)
 }
 
 // Run runs a script's experiment (sim.Experiment.Run): every point, then table.csv, run.json,
@@ -177,6 +178,7 @@ func (x *experiment) execute() (*result.Run, error) {
 	run.Shards = x.long.Record()
 	alignTaps(run)
 	settleShown(run)
+	x.frameNotes(run)
 	x.findTargets(run)
 	x.checkLimits(run)
 	if !run.Interrupted {
@@ -203,6 +205,7 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		if l == nil {
 			return nil, fmt.Errorf("sim: the Link function returned nil for point %d (%s)", pt.Index, pt.text())
 		}
+		x.fit(l, pt)
 		x.estimateOn(l)
 		return l, nil
 	}

@@ -52,12 +52,17 @@ func (x *experiment) findTargets(run *result.Run) {
 					} else {
 						fn := x.Theory[ci].Fn
 						base := c.points[0]
-						loss, err := stats.Penalty(cr, func(v float64) float64 {
+						at := func(v float64) float64 {
 							vals := append([]float64(nil), base.Values...)
 							vals[0] = v
 							return fn(Point{Names: run.Params, Values: vals, Labels: x.labels()})
-						})
-						if err != nil {
+						}
+						loss, err := stats.Penalty(cr, at)
+						if math.IsNaN(at(cr.X)) {
+							// The curve has no theory (a typed curve without Theory, a NaN case
+							// of the script's): nothing to compare with, and nothing claimed.
+							tr.Against = ""
+						} else if err != nil {
 							tr.Note = note(err)
 						} else {
 							tr.Penalty, tr.TheoryX = loss.DB, loss.Theory
