@@ -175,16 +175,23 @@ func BER(r *result.Run) (*Figure, error) {
 		}
 	}
 	// Targets and specs: a line at the rate, each curve's crossing marked (targets.go).
+	var keyed levels // the lines the legend names (those of the left panel, else the FER's)
 	if lines := levelLines(r, cs, taps, false); lines != nil {
 		left.Add(lines)
 		ys = append(ys, lines.rates()...)
-		legend.Add(lines.legend(), lines)
+		keyed = lines
 	}
 	if frames {
 		if lines := levelLines(r, cs, taps, true); lines != nil {
 			right.Add(lines)
 			fys = append(fys, lines.rates()...)
+			if keyed == nil || keyed.legend() != "target, crossing" && lines.legend() == "target, crossing" {
+				keyed = lines
+			}
 		}
+	}
+	if keyed != nil {
+		legend.Add(keyed.legend(), keyed)
 	}
 	addEstimatorKeys(legend, r, main)
 	drawn := slices.Clone(taps)

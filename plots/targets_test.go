@@ -51,6 +51,20 @@ func TestTargetLines(t *testing.T) {
 		t.Fatal(err)
 	}
 	texts, _ := svgTexts(t, svg)
+	// Only a target on the frame error rate: the legend still names the lines.
+	fr := sampleRun(false, true)
+	fr.Targets = []result.Target{{Tap: "fer", Rate: 1e-2, Found: true, X: 6.5, Low: 6.4, High: 6.6, Unit: "dB"}}
+	ff, err := BER(fr)
+	if err != nil {
+		t.Fatal(err)
+	}
+	fsvg, err := ff.SVG()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if ftexts, _ := svgTexts(t, fsvg); !has(ftexts, "target, crossing") || !has(ftexts, "6.50 dB") {
+		t.Error("a target on the FER alone: no legend entry or no crossing")
+	}
 	for _, want := range []string{"target ber 1e-5", "9.58 dB", "9.90 dB", "spec: ber below 1e-6", "target 0.01", "6.50 dB", "target, crossing"} {
 		if !has(texts, want) {
 			t.Errorf("ber.svg lacks the text %q", want)
