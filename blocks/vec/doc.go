@@ -9,9 +9,8 @@
 //	vec.Mul(y, f.Samples, g)     // y[i] = f.Samples[i]·g[i]
 //	vec.Clip(f.Samples, f.Samples, 1.5)
 //
-// Lengths: the inputs must have the length of dst (a function panics, naming itself and the
-// lengths, when they do not); functions that reduce (Sum, Energy, Norm, Dot) take the length of
-// their first argument.
+// Lengths: the inputs (masks included) must have the length of dst, and Dot's two arguments the
+// same length; a function panics, naming itself and the lengths, when they do not.
 //
 // Aliasing: dst may be the very same slice as any input (same first element and length), so
 // operations work in place; it must not overlap an input partly (dst = x[1:] of x), which gives
