@@ -34,16 +34,20 @@ const maxFit = 1 << 16
 // cannot tell what that one does to the length. A source the script made Exact, a length that
 // already fits, or no fitting length within 65 536 bits more, leave the link as it was (the
 // run then meets the block's own message). It returns the old and new lengths (equal when
-// nothing changed) and the blocks that asked for whole units, as text for the user.
+// nothing changed; 0 and 0 for a source of unknown length) and the blocks that asked for
+// whole units, as text for the user.
 func (l *Link) Fit() (from, to int, why string) {
 	if len(l.blocks) == 0 {
 		return 0, 0, ""
 	}
 	s, ok := l.blocks[0].(Sized)
-	if !ok || s.FrameLenExact() {
+	if !ok {
 		return 0, 0, ""
 	}
 	from = s.FrameLen()
+	if s.FrameLenExact() {
+		return from, from, ""
+	}
 	var units []string
 	fits := func(n int, note bool) bool {
 		for _, b := range l.blocks[1:] {

@@ -4,6 +4,7 @@ import (
 	"fmt"
 
 	"tally/blocks/link"
+	"tally/blocks/modem"
 	"tally/blocks/rng"
 	"tally/blocks/source"
 )
@@ -31,4 +32,19 @@ func ExamplePattern() {
 	// Output:
 	// [1 0 0 1]
 	// [0 0 1 0]
+}
+
+// A frame length that a block after the source cannot take whole is rounded up by the run
+// (link.Link.Fit); Exact keeps it as typed.
+func ExampleRandomBits_Exact() {
+	m := modem.QPSK()
+	l := link.Chain(source.Random(1001), m.Mod(), m.Demod())
+	from, to, _ := l.Fit()
+	fmt.Println(from, "→", to)
+	l = link.Chain(source.Random(1001).Exact(), m.Mod(), m.Demod())
+	from, to, _ = l.Fit()
+	fmt.Println(from, "→", to)
+	// Output:
+	// 1001 → 1002
+	// 1001 → 1001
 }

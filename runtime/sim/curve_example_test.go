@@ -210,3 +210,61 @@ func ExampleExperiment_Legend() {
 	fmt.Println(r.Params)
 	// Output: [ebn0_db modem]
 }
+
+// A theory that depends on another axis than the x axis reads the whole point.
+func ExampleCurve_TheoryAt() {
+	x := quick("order")
+	ebn0 := x.Axis("ebn0_db", 10)
+	order := x.Axis("order", 4, 16)
+	x.Curve("QAM", func(p Point) *link.Link {
+		m := modem.QAM(order.Int(p))
+		return link.Chain(source.Random(1024), m.Mod(), channel.AWGN(ebn0.At(p)), m.Demod())
+	}).TheoryAt(func(p Point) float64 { return theory.QAM(order.Int(p), ebn0.At(p)) })
+	x.Stop(stop.Bits(1024))
+	r, err := x.executeTyped()
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, p := range r.Points {
+		fmt.Printf("%s-QAM: %.2e\n", r.Value(p, 1), p.Theory[0])
+	}
+	// Output:
+	// 4-QAM: 3.87e-06
+	// 16-QAM: 1.75e-03
+}
+
+func ExampleAxis_Int() {
+	x := quick("converter")
+	bits := x.Axis("adc_bits", 3, 4)
+	fmt.Println(bits.Name(), bits.Int(Point{Names: []string{"adc_bits"}, Values: []float64{4}}))
+	// Output: adc_bits 4
+}
+
+func ExampleChoice_Index() {
+	x := quick("choices")
+	x.Axis("ebn0_db", 4)
+	mod := x.Choices("modem", "BPSK", "QPSK", "8-PSK")
+	p := Point{Names: []string{"ebn0_db", "modem"}, Values: []float64{4, 2},
+		labels: [][]string{nil, {"BPSK", "QPSK", "8-PSK"}}}
+	fmt.Println(mod.Name(), mod.Index(p), mod.At(p))
+	// Output: modem 2 8-PSK
+}
+
+func ExampleExperiment_TheoryName() {
+	x := quick("theory name")
+	ebn0 := x.Axis("ebn0_db", 4)
+	x.TheoryName("coherent")
+	c := x.Curve("BPSK", func(p Point) *link.Link {
+		m := modem.BPSK()
+		return link.Chain(source.Random(1024), m.Mod(), channel.AWGN(ebn0.At(p)), m.Demod())
+	}).Theory(theory.BPSK)
+	x.Stop(stop.Bits(1024))
+	r, err := x.executeTyped()
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(c.Name(), r.Theory)
+	// Output: BPSK [coherent]
+}

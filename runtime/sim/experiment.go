@@ -1,15 +1,23 @@
-// Package sim is what an experiment script types: a sweep, the link for a point, the stop
-// rules, theory curves to compare with, and Run.
+// Package sim is what an experiment script types: the axes, the curves with their links and
+// theories, the stop rules, the targets, and Run.
 //
 //	x := sim.New("sensor uplink")
-//	x.Sweep("ebn0_db", sim.Range(0, 10, 2)...)
-//	x.Link(func(p sim.Point) *link.Link {
+//	ebn0 := x.Axis("ebn0_db", sim.Range(0, 10, 2)...)
+//	x.Curve("QPSK", func(p sim.Point) *link.Link {
 //		m := modem.QPSK()
-//		return link.Chain(source.Random(4096), m.Mod(), channel.AWGN(p.Get("ebn0_db")), m.Demod())
-//	})
+//		return link.Chain(source.Random(4096), m.Mod(), channel.AWGN(ebn0.At(p)), m.Demod())
+//	}).Theory(theory.QPSK)
 //	x.Stop(stop.Errors(100), stop.Bits(1e7))
-//	x.Theory("qpsk", func(p sim.Point) float64 { return theory.QPSK(p.Get("ebn0_db")) })
+//	x.Target(1e-5)
 //	x.Run()
+//
+// The older form, which names parameters and theories by strings (Sweep, SweepLabels, Link,
+// Point.Get, Theory, Target against a name, Scatter by values), still runs unchanged:
+//
+//	x.Sweep("ebn0_db", sim.Range(0, 10, 2)...)
+//	x.Link(func(p sim.Point) *link.Link { … channel.AWGN(p.Get("ebn0_db")) … })
+//	x.Theory("qpsk", func(p sim.Point) float64 { return theory.QPSK(p.Get("ebn0_db")) })
+//	x.Target(1e-5, "qpsk")
 //
 // The same file runs compiled (go run file.go) and interpreted (tally run file.go) with the
 // same table.
