@@ -249,7 +249,7 @@ func compare(t PairedTally, confidence float64, planned int64, paired bool) Comp
 	rho2 := (-2*math.Log(alpha) + math.Log1p(-2*math.Log(alpha))) / float64(planned)
 	v := n*rho2 + 1
 	k := math.Sqrt(2 * v / (n * n * rho2) * (0.5*math.Log(v) - math.Log(alpha)))
-	c.DiffLow, c.DiffHigh = c.Diff-k*s, c.Diff+k*s
+	c.DiffLow, c.DiffHigh = math.Max(-1, c.Diff-k*s), math.Min(1, c.Diff+k*s)
 	sn := n * c.Diff / s
 	logp := 0.5*math.Log(v) - rho2*sn*sn/(2*v)
 	c.P = math.Exp(math.Min(0, logp))
@@ -363,6 +363,11 @@ func fieller(a, b, saa, sbb, sab, k float64) (low, high float64) {
 	return math.Max(0, r1), math.Max(0, r2)
 }
 
+// Within reports whether the comparison shows the rates within a fraction x of each other:
+// the ratio's interval lies inside [1 − x, 1 + x] (x = 0.1: "bounded within ±10 %"). Like
+// Shown it is valid at any stopping time.
+func (c Comparison) Within(x float64) bool { return c.RatioLow >= 1-x && c.RatioHigh <= 1+x }
+
 // VerdictFor is the comparison's verdict in words, with the variants called a and b:
 // "b makes fewer errors than a (p = 3.1e-5)", "no difference shown (p = 0.41)".
 func (c Comparison) VerdictFor(a, b string) string {
@@ -371,7 +376,7 @@ func (c Comparison) VerdictFor(a, b string) string {
 		return "no frames yet"
 	case math.IsNaN(c.P):
 		return "not judged"
-	case c.Frames < MinPairedFrames && !c.Same && c.P == 1 && c.DiffLow == -1 && c.DiffHigh == 1:
+	case c.Frames < MinPairedFrames && !c.Same && !c.Shown:
 		return fmt.Sprintf("not judged yet (%d of %d frames)", c.Frames, MinPairedFrames)
 	case c.Same:
 		return fmt.Sprintf("no difference shown: the same errors in each of the %d frames", c.Frames)

@@ -142,6 +142,9 @@ func TestPairedAgainstMixture(t *testing.T) {
 	if got := (u.DiffHigh - u.Diff) / k; math.Abs(got-su) > 1e-9*su {
 		t.Errorf("unpaired half width / k = %g, want √(s_A²+s_B²) = %g", got, su)
 	}
+	if w := math.Max(1-c.RatioLow, c.RatioHigh-1); !c.Within(w+1e-9) || c.Within(w-1e-9) {
+		t.Errorf("Within(%g) and the ratio interval [%g, %g] disagree", w, c.RatioLow, c.RatioHigh)
+	}
 	if !strings.HasPrefix(c.Method, PairedMethod) || !strings.HasPrefix(u.Method, UnpairedMethod) {
 		t.Errorf("methods %q, %q", c.Method, u.Method)
 	}
@@ -227,7 +230,8 @@ func TestPairedEdges(t *testing.T) {
 	one.Add(3, 5, 100, 100, 0, 2)
 	c := ComparePaired(one, 0.95)
 	// One frame shows nothing of the spread: the whole range, no evidence.
-	if c.Shown || c.DiffLow != -1 || c.DiffHigh != 1 || c.P != 1 || math.Abs(c.Diff-0.02) > 1e-15 {
+	if c.Shown || c.DiffLow != -1 || c.DiffHigh != 1 || c.P != 1 || math.Abs(c.Diff-0.02) > 1e-15 ||
+		c.Verdict != "not judged yet (1 of 30 frames)" {
 		t.Errorf("one frame: %+v", c)
 	}
 	// Two frames alike, 2 errors more in B: the exact bound with one frame after the first,
@@ -239,6 +243,13 @@ func TestPairedEdges(t *testing.T) {
 	}
 	if want := 1 / 1.02; math.Abs(c.P-want) > 1e-12 {
 		t.Errorf("two frames alike: P = %g, want (1+|c|)^−1 = %g", c.P, want)
+	}
+	// Frames that differ, fewer than MinPairedFrames: not judged.
+	for range 10 {
+		one.Add(1, 0, 100, 100, 1, 0)
+	}
+	if c := ComparePaired(one, 0.95); c.Shown || c.P != 1 || c.DiffLow != -1 || c.DiffHigh != 1 || c.Within(0.5) {
+		t.Errorf("12 frames that differ: %+v", c)
 	}
 	z := ComparePaired(PairedTally{}, 0.95)
 	if z.Shown || z.P != 1 || !math.IsNaN(z.Diff) || z.DiffLow != -1 || z.DiffHigh != 1 || z.Verdict != "no frames yet" {
