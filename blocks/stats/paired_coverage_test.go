@@ -261,3 +261,45 @@ func TestPairedMcNemar(t *testing.T) {
 		t.Logf("d = %g: discordant %d/%d, McNemar z %.2f exact p %.3g; anytime p %.3g, %s", d, b, cc, zM, exact, c.P, c.Verdict)
 	}
 }
+
+// For two runs that really were independent (A and B on their own noise), the unpaired
+// comparison is the right one and covers the true difference at every frame; the paired one,
+// which estimates the same variance from the same frames when Cross carries nothing, too.
+// Same sources as TestPairedCoverage.
+func TestUnpairedCoverage(t *testing.T) {
+	const conf, m, pA, pB = 0.95, 100, 0.01, 0.012
+	runs, frames := 200, 1000
+	if testing.Short() {
+		runs = 60
+	}
+	diff := pB - pA
+	var unpaired, paired int
+	for i := range runs {
+		r := rand.New(rand.NewPCG(uint64(i), 0xab))
+		var tally PairedTally
+		missU, missP := false, false
+		for range frames {
+			ea, eb := int64(binom(r, m, pA)), int64(binom(r, m, pB))
+			tally.Add(ea, eb, m, m, 0, 0)
+			u, p := CompareUnpaired(tally, conf), ComparePaired(tally, conf)
+			missU = missU || !(u.DiffLow <= diff && diff <= u.DiffHigh)
+			missP = missP || !(p.DiffLow <= diff && diff <= p.DiffHigh)
+		}
+		if !missU {
+			unpaired++
+		}
+		if !missP {
+			paired++
+		}
+	}
+	for _, got := range []struct {
+		what string
+		n    int
+	}{{"unpaired", unpaired}, {"paired", paired}} {
+		if cov := float64(got.n) / float64(runs); cov < conf {
+			t.Errorf("independent runs, %s, at every frame: coverage %.3f < %.2f", got.what, cov, conf)
+		} else {
+			t.Logf("independent runs, %s, at every frame: coverage %.3f", got.what, cov)
+		}
+	}
+}

@@ -290,6 +290,44 @@ func TestPairedOnlyB(t *testing.T) {
 	}
 }
 
+// A shows few errors (not shown above 0), B many: Fieller's set is two rays, and the ratio's
+// interval is the ray [r2, +Inf) with r2 > 0 where (b − r·a)² = k²·v(r) (Fieller, J. R. Stat.
+// Soc. B 16, 1954).
+func TestPairedRatioRays(t *testing.T) {
+	var tally PairedTally
+	var xa, xb []float64
+	for i := range 2000 {
+		var ea int64
+		if i%700 == 3 {
+			ea = 1
+		}
+		eb := int64(i % 2)
+		tally.Add(ea, eb, 100, 100, ea, eb)
+		xa = append(xa, float64(ea)/100)
+		xb = append(xb, float64(eb)/100)
+	}
+	c := ComparePaired(tally, 0.95)
+	if !math.IsInf(c.RatioHigh, 1) || !(c.RatioLow > 0) || !(c.RatioLow < c.Ratio) {
+		t.Fatalf("ratio %g [%g, %g], want a ray [r2 > 0, +Inf)", c.Ratio, c.RatioLow, c.RatioHigh)
+	}
+	s := math.Sqrt(stat.Variance(xs(xa, xb), nil))
+	k := (c.DiffHigh - c.Diff) / s
+	a, b, r := stat.Mean(xa, nil), stat.Mean(xb, nil), c.RatioLow
+	v := stat.Variance(xb, nil) - 2*r*stat.Covariance(xa, xb, nil) + r*r*stat.Variance(xa, nil)
+	if lhs, rhs := (b-r*a)*(b-r*a), k*k*v; math.Abs(lhs-rhs) > 1e-9*rhs {
+		t.Errorf("at r2 = %g: (b − r·a)² = %g, k²·v(r) = %g", r, lhs, rhs)
+	}
+}
+
+// xs is the per-frame differences b − a.
+func xs(a, b []float64) []float64 {
+	d := make([]float64, len(a))
+	for i := range a {
+		d[i] = b[i] - a[i]
+	}
+	return d
+}
+
 // P-values print as a person reads them (common practice, no source).
 func TestFormatP(t *testing.T) {
 	for p, want := range map[float64]string{
