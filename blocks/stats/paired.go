@@ -64,7 +64,8 @@ func (t *PairedTally) Merge(o PairedTally) {
 // level asked for; P is the p-value of "no difference" (RateA = RateB) and Shown reports that
 // the difference is shown at that level: exactly when the Diff interval excludes 0, which is
 // exactly when P < 1 − confidence. All of them are valid however long the count runs and
-// whatever rule stops it, including a rule that watches this comparison (see ComparePaired).
+// whatever rule stops it, including a rule that watches this comparison (see
+// ComparePairedPlanned for the method and its limits).
 //
 // Ratio is NaN when neither variant made an error (its interval [0, +Inf]: nothing is known
 // of it) and +Inf when only B did; RatioHigh is +Inf whenever the counts do not show RateA
@@ -143,8 +144,10 @@ func ComparePaired(t PairedTally, confidence float64) Comparison {
 //
 //	M = (nρ²+1)^(−1/2) · exp(ρ²S²/(2(nρ²+1))),   P = min(1, 1/M),
 //
-// so P(P ever ≤ α) ≤ α under no difference (Ville's inequality, Ville 1939), and P < α
-// exactly when the interval excludes 0.
+// so P(P ever ≤ α) ≤ α under no difference (Ville's inequality: Ville, Étude critique de la
+// notion de collectif, 1939), and P < α exactly when the interval excludes 0. Below
+// MinPairedFrames frames that differ nothing is judged (P = 1, Diff in [−1, 1], ratio in
+// [0, +Inf]).
 //
 // The ratio's interval is Fieller's (Fieller, "Some problems in interval estimation",
 // J. R. Stat. Soc. B 16, 1954) on the same sequence: r is in it when the sequence for the
@@ -161,7 +164,8 @@ func ComparePaired(t PairedTally, confidence float64) Comparison {
 // difference lies in [−1, 1], so the interval is c + q·([−1, 1] − c) and P = (1 + |c|)^(−(n−1)).
 // The bound is wide (about 3/n at 95 %) because nothing in the counts limits how badly a rare
 // differing frame may differ; that is what identical frames show, and no more. One frame shows
-// nothing: [−1, 1], P = 1.
+// nothing: [−1, 1], P = 1. The ratio's interval is then 1 + Diff/RateA over the Diff
+// interval, with RateA as counted (cut at 0; [0, +Inf] when A has no errors).
 //
 // The sequence is asymptotic: it assumes the frames seen show the spread of the differences.
 // Variants whose errors cluster very differently can break that early in a run. In a
