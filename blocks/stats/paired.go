@@ -210,10 +210,7 @@ func compare(t PairedTally, confidence float64, planned int64, paired bool) Comp
 	if !(confidence > 0 && confidence < 1) || planned < 1 || t.Frames < 0 ||
 		t.ErrorsA < 0 || t.ErrorsB < 0 || t.ErrorsA > t.TrialsA || t.ErrorsB > t.TrialsB ||
 		(t.Frames > 0 && (t.TrialsA < t.Frames || t.TrialsB < t.Frames)) {
-		c.RateA, c.RateB, c.Diff, c.DiffLow, c.DiffHigh = nan, nan, nan, nan, nan
-		c.Ratio, c.RatioLow, c.RatioHigh, c.P = nan, nan, nan, nan
-		c.Verdict = "not judged"
-		return c
+		return notJudged(c)
 	}
 	if t.Frames == 0 {
 		c.RateA, c.RateB, c.Diff, c.DiffLow, c.DiffHigh = nan, nan, nan, -1, 1
@@ -236,6 +233,9 @@ func compare(t PairedTally, confidence float64, planned int64, paired bool) Comp
 	}
 
 	dd, caa, cbb, cab := spread(n, ma, mb, t, paired)
+	if caa < 0 || cbb < 0 || cab*cab > caa*cbb*(1+1e-12) {
+		return notJudged(c) // sums of squares that no counts give
+	}
 	if t.Frames < 2 || dd <= 0 {
 		return identical(c, t, alpha, paired)
 	}
@@ -305,6 +305,16 @@ func spread(n, ma, mb float64, t PairedTally, paired bool) (d, caa, cbb, cab flo
 		cab = 0
 	}
 	return d, caa, cbb, cab
+}
+
+// notJudged is the comparison of counts that are not counts: every number NaN.
+func notJudged(c Comparison) Comparison {
+	nan := math.NaN()
+	c.RateA, c.RateB, c.Diff, c.DiffLow, c.DiffHigh = nan, nan, nan, nan, nan
+	c.Ratio, c.RatioLow, c.RatioHigh, c.P = nan, nan, nan, nan
+	c.Shown, c.Same = false, false
+	c.Verdict = "not judged"
+	return c
 }
 
 // prec is enough bits to hold the tally's products exactly.

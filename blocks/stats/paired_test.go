@@ -263,6 +263,9 @@ func TestPairedEdges(t *testing.T) {
 		{PairedTally{Frames: 2, TrialsA: 10, TrialsB: 10, ErrorsA: 11}, 0.95},
 		{PairedTally{Frames: 2, TrialsA: 1, TrialsB: 10}, 0.95},
 		{PairedTally{Frames: -1}, 0.95},
+		// Σe² below (Σe)²/n, and Σe_A·e_B beyond Cauchy–Schwarz: no frames give these.
+		{PairedTally{Frames: 2, TrialsA: 10, TrialsB: 10, ErrorsA: 4, SquaresA: 4}, 0.95},
+		{PairedTally{Frames: 2, TrialsA: 10, TrialsB: 10, ErrorsA: 2, ErrorsB: 2, SquaresA: 4, SquaresB: 2, Cross: 5}, 0.95},
 	} {
 		c := ComparePaired(bad.t, bad.conf)
 		if !math.IsNaN(c.P) || !math.IsNaN(c.Diff) || c.Shown || c.Verdict != "not judged" {
