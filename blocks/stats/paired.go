@@ -64,7 +64,8 @@ func (t *PairedTally) Merge(o PairedTally) {
 // level asked for; P is the p-value of "no difference" (RateA = RateB) and Shown reports that
 // the difference is shown at that level: exactly when the Diff interval excludes 0, which is
 // exactly when P < 1 − confidence. All of them are valid however long the count runs and
-// whatever rule stops it, including a rule that watches this comparison (see ComparePaired).
+// whatever rule stops it, including a rule that watches this comparison (see
+// ComparePairedPlanned for the method and its limits).
 //
 // Ratio is NaN when neither variant made an error (its interval [0, +Inf]: nothing is known
 // of it) and +Inf when only B did; RatioHigh is +Inf whenever the counts do not show RateA
@@ -143,8 +144,10 @@ func ComparePaired(t PairedTally, confidence float64) Comparison {
 //
 //	M = (nρ²+1)^(−1/2) · exp(ρ²S²/(2(nρ²+1))),   P = min(1, 1/M),
 //
-// so P(P ever ≤ α) ≤ α under no difference (Ville's inequality, Ville 1939), and P < α
-// exactly when the interval excludes 0.
+// so P(P ever ≤ α) ≤ α under no difference (Ville's inequality: Ville, Étude critique de la
+// notion de collectif, 1939), and P < α exactly when the interval excludes 0. Below
+// MinPairedFrames frames that differ nothing is judged (P = 1, Diff in [−1, 1], ratio in
+// [0, +Inf]).
 //
 // The ratio's interval is Fieller's (Fieller, "Some problems in interval estimation",
 // J. R. Stat. Soc. B 16, 1954) on the same sequence: r is in it when the sequence for the
@@ -161,7 +164,8 @@ func ComparePaired(t PairedTally, confidence float64) Comparison {
 // difference lies in [−1, 1], so the interval is c + q·([−1, 1] − c) and P = (1 + |c|)^(−(n−1)).
 // The bound is wide (about 3/n at 95 %) because nothing in the counts limits how badly a rare
 // differing frame may differ; that is what identical frames show, and no more. One frame shows
-// nothing: [−1, 1], P = 1.
+// nothing: [−1, 1], P = 1. The ratio's interval is then 1 + Diff/RateA over the Diff
+// interval, with RateA as counted (cut at 0; [0, +Inf] when A has no errors).
 //
 // The sequence is asymptotic: it assumes the frames seen show the spread of the differences.
 // Variants whose errors cluster very differently can break that early in a run. In a
@@ -206,10 +210,7 @@ func compare(t PairedTally, confidence float64, planned int64, paired bool) Comp
 	if !(confidence > 0 && confidence < 1) || planned < 1 || t.Frames < 0 ||
 		t.ErrorsA < 0 || t.ErrorsB < 0 || t.ErrorsA > t.TrialsA || t.ErrorsB > t.TrialsB ||
 		(t.Frames > 0 && (t.TrialsA < t.Frames || t.TrialsB < t.Frames)) {
-		c.RateA, c.RateB, c.Diff, c.DiffLow, c.DiffHigh = nan, nan, nan, nan, nan
-		c.Ratio, c.RatioLow, c.RatioHigh, c.P = nan, nan, nan, nan
-		c.Verdict = "not judged"
-		return c
+		return notJudged(c)
 	}
 	if t.Frames == 0 {
 		c.RateA, c.RateB, c.Diff, c.DiffLow, c.DiffHigh = nan, nan, nan, -1, 1
@@ -232,6 +233,9 @@ func compare(t PairedTally, confidence float64, planned int64, paired bool) Comp
 	}
 
 	dd, caa, cbb, cab := spread(n, ma, mb, t, paired)
+	if caa < 0 || cbb < 0 || cab*cab > caa*cbb*(1+1e-12) {
+		return notJudged(c) // sums of squares that no counts give
+	}
 	if t.Frames < 2 || dd <= 0 {
 		return identical(c, t, alpha, paired)
 	}
@@ -249,7 +253,7 @@ func compare(t PairedTally, confidence float64, planned int64, paired bool) Comp
 	rho2 := (-2*math.Log(alpha) + math.Log1p(-2*math.Log(alpha))) / float64(planned)
 	v := n*rho2 + 1
 	k := math.Sqrt(2 * v / (n * n * rho2) * (0.5*math.Log(v) - math.Log(alpha)))
-	c.DiffLow, c.DiffHigh = c.Diff-k*s, c.Diff+k*s
+	c.DiffLow, c.DiffHigh = math.Max(-1, c.Diff-k*s), math.Min(1, c.Diff+k*s)
 	sn := n * c.Diff / s
 	logp := 0.5*math.Log(v) - rho2*sn*sn/(2*v)
 	c.P = math.Exp(math.Min(0, logp))
@@ -301,6 +305,16 @@ func spread(n, ma, mb float64, t PairedTally, paired bool) (d, caa, cbb, cab flo
 		cab = 0
 	}
 	return d, caa, cbb, cab
+}
+
+// notJudged is the comparison of counts that are not counts: every number NaN.
+func notJudged(c Comparison) Comparison {
+	nan := math.NaN()
+	c.RateA, c.RateB, c.Diff, c.DiffLow, c.DiffHigh = nan, nan, nan, nan, nan
+	c.Ratio, c.RatioLow, c.RatioHigh, c.P = nan, nan, nan, nan
+	c.Shown, c.Same = false, false
+	c.Verdict = "not judged"
+	return c
 }
 
 // prec is enough bits to hold the tally's products exactly.
@@ -363,6 +377,11 @@ func fieller(a, b, saa, sbb, sab, k float64) (low, high float64) {
 	return math.Max(0, r1), math.Max(0, r2)
 }
 
+// Within reports whether the comparison shows the rates within a fraction x of each other:
+// the ratio's interval lies inside [1 − x, 1 + x] (x = 0.1: "bounded within ±10 %"). Like
+// Shown it is valid at any stopping time.
+func (c Comparison) Within(x float64) bool { return c.RatioLow >= 1-x && c.RatioHigh <= 1+x }
+
 // VerdictFor is the comparison's verdict in words, with the variants called a and b:
 // "b makes fewer errors than a (p = 3.1e-5)", "no difference shown (p = 0.41)".
 func (c Comparison) VerdictFor(a, b string) string {
@@ -371,7 +390,7 @@ func (c Comparison) VerdictFor(a, b string) string {
 		return "no frames yet"
 	case math.IsNaN(c.P):
 		return "not judged"
-	case c.Frames < MinPairedFrames && !c.Same && c.P == 1 && c.DiffLow == -1 && c.DiffHigh == 1:
+	case c.Frames < MinPairedFrames && !c.Same && !c.Shown:
 		return fmt.Sprintf("not judged yet (%d of %d frames)", c.Frames, MinPairedFrames)
 	case c.Same:
 		return fmt.Sprintf("no difference shown: the same errors in each of the %d frames", c.Frames)

@@ -21,10 +21,16 @@ type fadeFrames struct {
 	L                 int
 }
 
+// rates are the true error rates of A and B.
+func (g fadeFrames) rates() (a, b float64) {
+	la := float64(2*g.L+1) / 2 // E LA
+	return g.pA + g.fade*la/float64(g.m), g.pB + g.fade*la*(g.keep+g.extra)/float64(g.m)
+}
+
 // truth is the true difference of the rates, RateB − RateA.
 func (g fadeFrames) truth() float64 {
-	la := float64(2*g.L+1) / 2 // E LA
-	return g.pB - g.pA + g.fade*la*(g.keep+g.extra-1)/float64(g.m)
+	a, b := g.rates()
+	return b - a
 }
 
 func (g fadeFrames) frame(r *rand.Rand) (ea, eb int64) {
@@ -51,9 +57,12 @@ func (g fadeFrames) frame(r *rand.Rand) (ea, eb int64) {
 // Ramdas, "Time-uniform central limit theory and asymptotic confidence sequences", Ann.
 // Statist. 52, 2024, Theorem 2.2 as recalled from memory; the peeking problem it answers:
 // Armitage, McPherson and Rowe, J. R. Stat. Soc. A 132, 1969). Each run is judged after every
-// frame, and four readings are taken from it: (a) after a fixed frame count, (b) when A's
-// errors reach a count, (c) as soon as the difference is shown (or at the frame budget), and
-// the strongest, that the interval held the truth at every frame. Scenarios: independent
+// frame, and readings of both the difference's and the ratio's interval are taken from it:
+// (a) after a fixed frame count, (b) when A's errors reach a count, (c) as soon as the
+// difference is shown, (c') as soon as it is shown or the ratio bounded within ±25 % (a rule
+// that stops when the interval is narrow, so favours moments when the variance is
+// underestimated), each at the frame budget at the latest, and the strongest reading, that
+// the interval held the truth at every frame. Scenarios: independent
 // errors, errors clustered in fades shared by both variants (d), and no true difference with
 // fades (for (c) the false-claim rate). The truths are known from the generators' rates. The
 // reading at every frame is the hardest for an asymptotic method: it fails where few frames
@@ -75,60 +84,77 @@ func TestPairedCoverage(t *testing.T) {
 	if testing.Short() {
 		runs = 60
 	}
+	// A rule stops a run at the first frame it holds (or at the frame budget).
+	type rule struct {
+		name string
+		stop func(tally PairedTally, c Comparison) bool
+	}
 	for _, tc := range cases {
-		truth := tc.g.truth()
-		var fixed, count, shown, every int
+		rules := []rule{
+			{"fixed frames", func(PairedTally, Comparison) bool { return false }},
+			{"error count on A", func(t PairedTally, _ Comparison) bool { return t.ErrorsA >= tc.errorStop }},
+			{"stop when shown", func(_ PairedTally, c Comparison) bool { return c.Shown }},
+			{"shown or within ±25 %", func(_ PairedTally, c Comparison) bool { return c.Shown || c.Within(0.25) }},
+		}
+		diff := tc.g.truth()
+		ra, rb := tc.g.rates()
+		ratio := rb / ra
+		coverDiff := make([]int, len(rules)+1) // the last: at every frame
+		coverRatio := make([]int, len(rules)+1)
 		var shownRuns int
 		for i := range runs {
 			r := rand.New(rand.NewPCG(uint64(i), 0x5eed))
 			var tally PairedTally
-			countDone, shownDone, missed := false, false, false
+			done := make([]bool, len(rules))
+			missDiff, missRatio := false, false
 			var c Comparison
-			for range frames {
+			for f := range frames {
 				ea, eb := tc.g.frame(r)
 				tally.Add(ea, eb, int64(tc.g.m), int64(tc.g.m), 0, 0)
 				c = ComparePaired(tally, conf)
-				covers := c.DiffLow <= truth && truth <= c.DiffHigh
-				missed = missed || !covers
-				if !countDone && tally.ErrorsA >= tc.errorStop {
-					countDone = true
-					if covers {
-						count++
+				okDiff := c.DiffLow <= diff && diff <= c.DiffHigh
+				okRatio := c.RatioLow <= ratio && ratio <= c.RatioHigh
+				missDiff = missDiff || !okDiff
+				missRatio = missRatio || !okRatio
+				for j, ru := range rules {
+					if !done[j] && (ru.stop(tally, c) || f == frames-1) {
+						done[j] = true
+						if okDiff {
+							coverDiff[j]++
+						}
+						if okRatio {
+							coverRatio[j]++
+						}
 					}
 				}
-				if !shownDone && c.Shown {
-					shownDone = true
-					shownRuns++
-					if covers {
-						shown++
-					}
+			}
+			if c.Shown {
+				shownRuns++
+			}
+			if !missDiff {
+				coverDiff[len(rules)]++
+			}
+			if !missRatio {
+				coverRatio[len(rules)]++
+			}
+		}
+		for j := range coverDiff {
+			name := "at every frame"
+			if j < len(rules) {
+				name = rules[j].name
+			}
+			for _, got := range []struct {
+				what string
+				n    int
+			}{{"difference", coverDiff[j]}, {"ratio", coverRatio[j]}} {
+				if cov := float64(got.n) / float64(runs); cov < conf {
+					t.Errorf("%s, %s: %s coverage %.3f < %.2f", tc.name, name, got.what, cov, conf)
+				} else {
+					t.Logf("%s, %s: %s coverage %.3f", tc.name, name, got.what, cov)
 				}
 			}
-			covers := c.DiffLow <= truth && truth <= c.DiffHigh
-			if covers {
-				fixed++
-			}
-			if !countDone && covers { // the budget ran out first: the rule stops there
-				count++
-			}
-			if !shownDone && covers {
-				shown++
-			}
-			if !missed {
-				every++
-			}
 		}
-		for _, got := range []struct {
-			rule string
-			n    int
-		}{{"fixed frames", fixed}, {"error count on A", count}, {"stop when shown", shown}, {"at every frame", every}} {
-			if cov := float64(got.n) / float64(runs); cov < conf {
-				t.Errorf("%s, %s: coverage %.3f < %.2f", tc.name, got.rule, cov, conf)
-			} else {
-				t.Logf("%s, %s: coverage %.3f", tc.name, got.rule, cov)
-			}
-		}
-		t.Logf("%s: difference %.3g, shown in %d of %d runs", tc.name, truth, shownRuns, runs)
+		t.Logf("%s: difference %.3g, ratio %.3g, shown after %d frames in %d of %d runs", tc.name, diff, ratio, frames, shownRuns, runs)
 	}
 }
 
@@ -233,5 +259,47 @@ func TestPairedMcNemar(t *testing.T) {
 			}
 		}
 		t.Logf("d = %g: discordant %d/%d, McNemar z %.2f exact p %.3g; anytime p %.3g, %s", d, b, cc, zM, exact, c.P, c.Verdict)
+	}
+}
+
+// For two runs that really were independent (A and B on their own noise), the unpaired
+// comparison is the right one and covers the true difference at every frame; the paired one,
+// which estimates the same variance from the same frames when Cross carries nothing, too.
+// Same sources as TestPairedCoverage.
+func TestUnpairedCoverage(t *testing.T) {
+	const conf, m, pA, pB = 0.95, 100, 0.01, 0.012
+	runs, frames := 200, 1000
+	if testing.Short() {
+		runs = 60
+	}
+	diff := pB - pA
+	var unpaired, paired int
+	for i := range runs {
+		r := rand.New(rand.NewPCG(uint64(i), 0xab))
+		var tally PairedTally
+		missU, missP := false, false
+		for range frames {
+			ea, eb := int64(binom(r, m, pA)), int64(binom(r, m, pB))
+			tally.Add(ea, eb, m, m, 0, 0)
+			u, p := CompareUnpaired(tally, conf), ComparePaired(tally, conf)
+			missU = missU || !(u.DiffLow <= diff && diff <= u.DiffHigh)
+			missP = missP || !(p.DiffLow <= diff && diff <= p.DiffHigh)
+		}
+		if !missU {
+			unpaired++
+		}
+		if !missP {
+			paired++
+		}
+	}
+	for _, got := range []struct {
+		what string
+		n    int
+	}{{"unpaired", unpaired}, {"paired", paired}} {
+		if cov := float64(got.n) / float64(runs); cov < conf {
+			t.Errorf("independent runs, %s, at every frame: coverage %.3f < %.2f", got.what, cov, conf)
+		} else {
+			t.Logf("independent runs, %s, at every frame: coverage %.3f", got.what, cov)
+		}
 	}
 }
