@@ -48,7 +48,7 @@ func ExampleExperiment_Axis() {
 	fmt.Println(header(r))
 	fmt.Println(len(r.Points), "points")
 	// Output:
-	// ebn0_db,bits,errors,ber,ci_low,ci_high,stop,frames,frame_errors,fer,fer_low,fer_high
+	// ebn0_db,ber_trials,ber_errors,ber,ber_low,ber_high,stop,fer_trials,fer_errors,fer,fer_low,fer_high
 	// 3 points
 }
 
@@ -105,7 +105,7 @@ func ExampleExperiment_Curve() {
 		fmt.Printf("%s: against %s, |penalty| < 0.3 dB: %v\n", t.Curve, t.Against, t.Penalty > -0.3 && t.Penalty < 0.3)
 	}
 	// Output:
-	// ebn0_db,modem,bits,errors,ber,ci_low,ci_high,stop,frames,frame_errors,fer,fer_low,fer_high,theory_theory
+	// ebn0_db,modem,ber_trials,ber_errors,ber,ber_low,ber_high,stop,fer_trials,fer_errors,fer,fer_low,fer_high,theory_theory
 	// theory: 4.3 dB
 	// modem=BPSK: against theory, |penalty| < 0.3 dB: true
 	// modem=QPSK: against theory, |penalty| < 0.3 dB: true
@@ -190,7 +190,7 @@ func ExampleExperiment_Reference() {
 		return
 	}
 	fmt.Println(header(r))
-	// Output: ebn0_db,speed,bits,errors,ber,ci_low,ci_high,stop,frames,frame_errors,fer,fer_low,fer_high,theory_awgn,theory_rayleigh
+	// Output: ebn0_db,speed,ber_trials,ber_errors,ber,ber_low,ber_high,stop,fer_trials,fer_errors,fer,fer_low,fer_high,theory_awgn,theory_rayleigh
 }
 
 func ExampleExperiment_Legend() {
