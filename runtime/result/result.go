@@ -33,6 +33,11 @@ type Run struct {
 	Interrupted  bool       `json:"interrupted"`
 	// Shards, for a run merged from shard files (tally merge), says where its frames came from.
 	Shards *Shards `json:"shards,omitempty"`
+
+	// Execution, for a run tally started, says how it was computed: interpreted, compiled, or
+	// handed over from the interpreter to the compiled script (Mode names the last).
+	Execution *Execution `json:"execution,omitempty"`
+
 	// Scatter is one frame's received samples at a chosen point, for the constellation plot
 	// (not part of run.json: the plot is the record).
 	Scatter *Scatter  `json:"-"`
