@@ -175,7 +175,7 @@ func findToolchain(ctx context.Context) (*toolchain, error) {
 	if err != nil {
 		return nil, &Unavailable{Why: "no Go toolchain (go) on PATH"}
 	}
-	cmd := exec.CommandContext(ctx, gocmd, "env", "GOVERSION", "GOMODCACHE", "GOCACHE", "GOPATH")
+	cmd := lowPriority(ctx, gocmd, "env", "GOVERSION", "GOMODCACHE", "GOCACHE", "GOPATH")
 	cmd.Env = append(os.Environ(), "GOTOOLCHAIN=local", "GOFLAGS=")
 	out, err := cmd.Output()
 	if ctx.Err() != nil {

@@ -97,6 +97,22 @@ func (p *parent) startBuild(ctx context.Context, j *job) *handing {
 	return hd
 }
 
+// yieldAfter is how long an interpreted run keeps its priority beside the build: a short
+// script ends interpreted, unhindered by the build (which runs at a lower priority); a longer
+// one then yields the processors to the build, since the compiled script will soon do its
+// work many times faster.
+const yieldAfter = time.Second
+
+// building says whether the build is still running.
+func (hd *handing) building() bool {
+	select {
+	case <-hd.ready:
+		return false
+	default:
+		return true
+	}
+}
+
 // end stops a build still running when the run ends.
 func (hd *handing) end() {
 	if hd != nil && hd.cancel != nil {

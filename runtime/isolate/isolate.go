@@ -250,6 +250,10 @@ func (p *parent) stage(ctx context.Context, exe string, j job, hd *handing) (err
 	overRSS := int64(0)
 	done := ctx.Done()
 	ready := hd.readyFor(j)
+	var yield <-chan time.Time
+	if ready != nil || j.HandAt != nil {
+		yield = time.After(yieldAfter)
+	}
 	kill := func() {
 		if !killed {
 			killed = true
@@ -313,6 +317,12 @@ loop:
 			stopped = true
 			ctl.Encode(reply{Stop: true})
 			grace = time.After(p.c.Grace)
+		case <-yield:
+			// A script still running after this long is worth handing over: the build
+			// comes first from now on.
+			if hd.building() {
+				yieldCPU(cmd.Process.Pid)
+			}
 		case <-ready:
 			// The compiled script is built (or cannot be): hand the run over to it.
 			ready = nil
