@@ -80,7 +80,8 @@ func Serve() int {
 				os.Exit(3) // the parent is gone: nothing may outlive it
 			}
 			if r.Stop && r.Handover {
-				cancel(runner.ErrHandover) // the engine stops at a commit boundary; no outputs
+				// The engine stops at a commit boundary; no outputs.
+				runner.RequestHandover(func() { cancel(runner.ErrHandover) })
 				continue
 			}
 			if r.Stop {

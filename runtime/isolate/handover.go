@@ -85,6 +85,7 @@ func (p *parent) startBuild(ctx context.Context, j *job) *handing {
 	if !j.Long {
 		j.Long, j.Every = true, -1 // a checkpoint at each point's end and at the hand-over
 	}
+	j.Follow = true // its progress says when it may yield to the build
 	if h.At != nil {
 		j.HandAt = &wire.Spot{Point: h.At.Point, Frame: h.At.Frame}
 	}
@@ -99,8 +100,8 @@ func (p *parent) startBuild(ctx context.Context, j *job) *handing {
 
 // yieldAfter is how long an interpreted run keeps its priority beside the build: a short
 // script ends interpreted, unhindered by the build (which runs at a lower priority); a longer
-// one then yields the processors to the build, since the compiled script will soon do its
-// work many times faster.
+// one, once it has shown its first progress, then yields the processors to the build, since
+// the compiled script will soon do its work many times faster.
 const yieldAfter = time.Second
 
 // building says whether the build is still running.

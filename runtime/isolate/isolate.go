@@ -26,6 +26,7 @@ import (
 	"tally/runtime/host"
 	"tally/runtime/longrun"
 	"tally/runtime/output"
+	"tally/runtime/progress"
 	"tally/runtime/result"
 )
 
@@ -251,6 +252,7 @@ func (p *parent) stage(ctx context.Context, exe string, j job, hd *handing) (err
 	done := ctx.Done()
 	ready := hd.readyFor(j)
 	var yield <-chan time.Time
+	progressed := false // the child reported a point or its progress
 	if ready != nil || j.HandAt != nil {
 		yield = time.After(yieldAfter)
 	}
@@ -271,6 +273,7 @@ loop:
 			case kindPos:
 				p.pos = r.Pos
 			case kindPoint:
+				progressed = true
 				if len(r.Run.Points) <= p.seen {
 					continue // a point the run reported before its hand-over
 				}
@@ -287,6 +290,7 @@ loop:
 					p.c.Host.OnPoint(r.Run, r.Total)
 				}
 			case kindLive:
+				progressed = true
 				if p.c.Host.OnProgress != nil && r.Live != nil {
 					pr := r.Live.Prefix
 					p.c.Host.OnProgress(r.Live.Point(), &pr)
@@ -318,15 +322,19 @@ loop:
 			ctl.Encode(reply{Stop: true})
 			grace = time.After(p.c.Grace)
 		case <-yield:
-			// A script still running after this long is worth handing over: the build
-			// comes first from now on.
-			if hd.building() {
+			// A script still running after this long, its first progress shown, is worth
+			// handing over: the build comes first from now on.
+			switch {
+			case !hd.building():
+			case !progressed:
+				yield = time.After(progress.Every)
+			default:
 				yieldCPU(cmd.Process.Pid)
 			}
 		case <-ready:
 			// The compiled script is built (or cannot be): hand the run over to it.
 			ready = nil
-			if hd.usable(p.log()) && !stopped {
+			if hd.usable(p.log()) && !stopped && p.got == nil {
 				ctl.Encode(reply{Stop: true, Handover: true})
 			}
 		case <-grace:

@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"sync"
 
 	"tally/blocks/link"
 	"tally/runtime/engine"
@@ -14,6 +15,47 @@ import (
 // keeps the committed prefix, and the run writes no outputs, reports no interrupted point and
 // ends with ErrInterrupted; the program it is handed to continues from the checkpoint.
 var ErrHandover = errors.New("run handed over")
+
+var handover struct {
+	sync.Mutex
+	begun   bool   // the script's run has begun (Run was called)
+	ended   bool   // its points are done: nothing left to hand over
+	pending func() // a hand-over asked for before
+}
+
+// RequestHandover asks the run of this process to stop for a hand-over by calling stop (which
+// cancels the run's context with ErrHandover): at once when the script's run has begun, else
+// when it begins, so a script still in its own code before Run gets there first and the
+// checkpoint continued from is this run's.
+func RequestHandover(stop func()) {
+	handover.Lock()
+	defer handover.Unlock()
+	if handover.ended {
+		return
+	}
+	if handover.begun {
+		stop()
+		return
+	}
+	handover.pending = stop
+}
+
+// begin notes that the script's run has begun, and hands it over if that was asked.
+func begin() {
+	handover.Lock()
+	defer handover.Unlock()
+	handover.begun = true
+	if handover.pending != nil {
+		handover.pending()
+	}
+}
+
+// ended notes that the run's points are done.
+func ended() {
+	handover.Lock()
+	handover.ended = true
+	handover.Unlock()
+}
 
 // handingOver says whether the run is stopping for a hand-over.
 func (o *Options) handingOver() bool {

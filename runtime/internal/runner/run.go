@@ -57,7 +57,9 @@ func Run(s *Spec, o *Options) {
 	if child != nil {
 		child.started()
 	}
+	begin()
 	r, err := x.execute()
+	ended()
 	if errors.Is(err, ErrInterrupted) && o.handingOver() {
 		// Stopped at a commit boundary for a hand-over: the checkpoint holds the committed
 		// prefix and the program the run is handed to writes the outputs.
