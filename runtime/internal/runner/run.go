@@ -146,6 +146,9 @@ func (x *experiment) execute() (*result.Run, error) {
 		Tool: Version, GoVersion: goruntime.Version(), Mode: o.Mode, Seed: seed, Workers: workers,
 		Confidence: x.Confidence, Method: x.Method, Start: time.Now().UTC(),
 	}
+	if o.Mode == "compiled" && child == nil {
+		run.Execution = &result.Execution{How: "compiled"} // go run (tally itself records a hand-over)
+	}
 	for _, p := range x.Params {
 		run.Params = append(run.Params, p.Name)
 	}
