@@ -62,6 +62,18 @@ func TestCheckoutOf(t *testing.T) {
 	if got := checkoutOf(filepath.Join(other, "exp", "a.go")); got != "" {
 		t.Errorf("a script in another module: checkout %q, want none", got)
 	}
+	// This test binary was built from this checkout: its scripts build there, others from the
+	// snapshot.
+	if got := builtFrom(); got != root {
+		t.Fatalf("built from %q, want %q", got, root)
+	}
+	cache := t.TempDir()
+	for script, want := range map[string]string{filepath.Join(root, "experiments", "uplink.go"): "checkout", filepath.Join(other, "exp", "a.go"): "snapshot"} {
+		m, err := moduleFor(script, cache)
+		if err != nil || m.from != want {
+			t.Errorf("%s: module %+v, %v; want from the %s", script, m, err, want)
+		}
+	}
 }
 
 // The go command's complaints become one sentence at the script's own path.

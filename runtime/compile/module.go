@@ -8,6 +8,7 @@ import (
 	"io/fs"
 	"os"
 	"path/filepath"
+	"runtime"
 	"slices"
 	"strings"
 )
@@ -22,11 +23,12 @@ type module struct {
 	from string // "checkout" or "snapshot"
 }
 
-// moduleFor is tally's source for a script: the checkout of module tally the script sits in,
-// if it does (as go run of the script there would build it), else the embedded snapshot,
-// unpacked into the cache once.
+// moduleFor is tally's source for a script: the checkout this tally was built from, if the
+// script sits in it (as go run of the script there would build it, edits since included), else
+// the embedded snapshot, unpacked into the cache once. Another checkout, of another version
+// perhaps, is not used: the compiled script must run the blocks the interpreter ran.
 func moduleFor(script, cache string) (*module, error) {
-	if root := checkoutOf(script); root != "" {
+	if root := checkoutOf(script); root != "" && root == builtFrom() {
 		h, err := hashTree(root)
 		if err == nil {
 			return &module{dir: root, hash: "checkout " + h, from: "checkout"}, nil
@@ -37,6 +39,20 @@ func moduleFor(script, cache string) (*module, error) {
 		return nil, err
 	}
 	return &module{dir: dir, hash: "snapshot " + h, from: "snapshot"}, nil
+}
+
+// builtFrom is the root of the checkout this binary was built from, "" when it is unknown (a
+// build with -trimpath records no paths).
+func builtFrom() string {
+	_, file, _, ok := runtime.Caller(0)
+	if !ok || !filepath.IsAbs(file) {
+		return ""
+	}
+	dir := filepath.Dir(file)
+	if filepath.Base(dir) != "compile" || filepath.Base(filepath.Dir(dir)) != "runtime" {
+		return ""
+	}
+	return filepath.Dir(filepath.Dir(dir))
 }
 
 // checkoutOf is the root of the module tally whose folder holds the script, or "": the
