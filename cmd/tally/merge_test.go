@@ -101,6 +101,9 @@ func TestMain(m *testing.M) {
 		// Runs started by tests that call dispatch in this process run in this binary.
 		os.Exit(isolate.Serve())
 	}
+	// Runs stay interpreted: a hand-over to the compiled script, timed by a build, would make
+	// these tests' crashes and interrupts depend on the machine (runtime/isolate tests it).
+	os.Setenv(envInterpreted, "1")
 	code := m.Run()
 	if binDir != "" {
 		os.RemoveAll(binDir)

@@ -34,6 +34,9 @@ type runFlags struct {
 	quiet   bool
 	trust   bool
 	memory  isolate.SizeFlag
+	// interpreted keeps a run in the interpreter: no build, no hand-over to the compiled script.
+	interpreted bool
+	handover    isolate.Handover // the hand-overs' shared state (reasons said once)
 	// long-run flags (-resume, -restart, -checkpoint, -shard, -extend): see longrun.Flags.
 	longFlags func() (*longrun.Settings, error)
 	long      *longrun.Settings
@@ -46,6 +49,7 @@ func newRunFlags(name, args string, stderr io.Writer) *runFlags {
 	f.fs.Uint64Var(&f.seed, "seed", sim.DefaultSeed, "random seed (overrides the script's)")
 	f.fs.BoolVar(&f.quiet, "quiet", false, "no progress output")
 	f.fs.BoolVar(&f.trust, "trust", false, "lift the sandbox: let the script import any standard package (os, net, …); under watch, only the files there at the start")
+	f.fs.BoolVar(&f.interpreted, "interpreted", false, "run in the interpreter only: no build with the Go toolchain and no hand-over to the compiled script")
 	f.fs.Var(&f.memory, "memory", "the `size` of memory a run may use, such as 4GiB or 512MiB (default: half the machine's, "+isolate.Size(isolate.DefaultMemory())+" here); a run over it ends with an error")
 	f.longFlags = longrun.Flags(f.fs)
 	f.fs.Usage = func() {
@@ -121,8 +125,16 @@ func runCmd(args []string, stdout, stderr io.Writer) int {
 
 // isolated is how a run's child process is made.
 func (f *runFlags) isolated(stderr io.Writer) isolate.Config {
-	return isolate.Config{Host: f.config(stderr), Memory: f.memory.Bytes}
+	c := isolate.Config{Host: f.config(stderr), Memory: f.memory.Bytes}
+	if !f.interpreted && os.Getenv(envInterpreted) == "" {
+		c.Handover = &f.handover
+	}
+	return c
 }
+
+// envInterpreted, set to anything, keeps every run interpreted, as -interpreted does (a CI job,
+// the tests of this command).
+const envInterpreted = "TALLY_INTERPRETED"
 
 // ending is the last word of a run: where the outputs went, and the crossings at the targets
 // as README.md gives them.

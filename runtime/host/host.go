@@ -29,6 +29,7 @@ import (
 	"tally/blocks/stop"
 	"tally/runtime/host/symbols"
 	"tally/runtime/internal/runner"
+	"tally/runtime/internal/wire"
 	"tally/runtime/longrun"
 	"tally/runtime/progress"
 	"tally/runtime/result"
@@ -66,6 +67,14 @@ type Config struct {
 	// Position, if set, is given before the script starts a function naming the statement the
 	// script last reached ("file:line:col", "" before any), safe to call from any goroutine.
 	Position func(where func() string)
+	// HandAt and Handover, if both set: once point HandAt.Point has committed HandAt.Frame
+	// frames the run calls Handover, which cancels ctx with runner.ErrHandover (a hand-over
+	// placed by a test; see runtime/isolate).
+	HandAt   *wire.Spot
+	Handover func()
+	// Reported is the number of points a run this one continues has reported (not printed
+	// again).
+	Reported int
 }
 
 // ScriptError is a mistake in a script, at a position in it.
@@ -109,7 +118,8 @@ func Run(ctx context.Context, path string, cfg Config) error {
 	runner.Hosted()
 	opts := &runner.Options{Context: ctx, Script: path, Source: src, Mode: "interpreted", Workers: cfg.Workers,
 		Seed: cfg.Seed, SeedSet: cfg.SeedSet, Quiet: cfg.Quiet, Log: cfg.Log, Done: cfg.Done, Long: cfg.Long,
-		Point: cfg.Point, Output: cfg.Output, OnPoint: cfg.OnPoint, OnProgress: cfg.OnProgress}
+		Point: cfg.Point, Output: cfg.Output, OnPoint: cfg.OnPoint, OnProgress: cfg.OnProgress,
+		HandAt: cfg.HandAt, Handover: cfg.Handover, Reported: cfg.Reported}
 	var stderr bytes.Buffer
 	stdout := cfg.Stdout
 	if stdout == nil {

@@ -69,6 +69,10 @@ func checkImports(path string, src []byte, trust bool) error {
 	return nil
 }
 
+// CheckImports is the sandbox's import check of a script, for a program built from it (a run
+// handed over to the compiled script): refused is what the interpreter refuses.
+func CheckImports(path string, src []byte, trust bool) error { return checkImports(path, src, trust) }
+
 func stdPackage(p string) bool {
 	if p == "unsafe" {
 		return true

@@ -14,14 +14,16 @@ import (
 
 	"tally/blocks/stop"
 	"tally/runtime/host"
+	"tally/runtime/internal/runner"
+	"tally/runtime/internal/wire"
 	"tally/runtime/progress"
 	"tally/runtime/result"
 )
 
 // envChild marks a process started as a child: its value is the protocol version.
-const envChild = "TALLY_ISOLATED_CHILD"
+const envChild = wire.EnvChild
 
-const protocol = "2"
+const protocol = wire.Protocol
 
 // MaxStack is the child's stack limit: endless recursion in a script fails in about a second
 // instead of after a gigabyte (the Go default). Interpreted calls are deep, but 64 MiB is still
@@ -68,13 +70,19 @@ func Serve() int {
 		debug.SetMemoryLimit(j.Memory)
 		go c.watchMemory(j.Memory)
 	}
-	ctx, stop := context.WithCancel(context.Background())
+	ctx, cancel := context.WithCancelCause(context.Background())
+	stop := func() { cancel(nil) }
 	defer stop()
 	go func() {
 		for {
 			var r reply
 			if err := dec.Decode(&r); err != nil {
 				os.Exit(3) // the parent is gone: nothing may outlive it
+			}
+			if r.Stop && r.Handover {
+				// The engine stops at a commit boundary; no outputs.
+				runner.RequestHandover(func() { cancel(runner.ErrHandover) })
+				continue
 			}
 			if r.Stop {
 				stop()
@@ -84,7 +92,7 @@ func Serve() int {
 		}
 	}()
 
-	cfg := j.config()
+	cfg := config(j)
 	cfg.Log = logf
 	cfg.Stdout = os.Stdout
 	cfg.OnPoint = func(r *result.Run, total int) { c.send(report{Kind: kindPoint, Run: r, Total: total}) }
@@ -100,6 +108,9 @@ func Serve() int {
 		return c.answer()
 	}
 	cfg.Position = func(where func() string) { go c.samplePos(ctx, where) }
+	if j.HandAt != nil {
+		cfg.HandAt, cfg.Handover = j.HandAt, func() { cancel(runner.ErrHandover) }
+	}
 	err := host.Run(ctx, j.Path, cfg)
 	end := report{Kind: kindEnd}
 	var se *host.ScriptError
@@ -107,6 +118,7 @@ func Serve() int {
 	case err == nil:
 	case errors.Is(err, host.ErrInterrupted):
 		end.Interrupted = true
+		end.Handover = errors.Is(context.Cause(ctx), runner.ErrHandover)
 	case errors.As(err, &se):
 		end.Script, end.Pos, end.Err = true, se.Pos, se.Msg
 	default:

@@ -26,6 +26,7 @@ import (
 	"tally/runtime/host"
 	"tally/runtime/longrun"
 	"tally/runtime/output"
+	"tally/runtime/progress"
 	"tally/runtime/result"
 )
 
@@ -39,6 +40,9 @@ type Config struct {
 	Memory int64         // bytes the run may use (0: DefaultMemory)
 	Grace  time.Duration // after a stop, how long before the child is killed (0: DefaultGrace)
 	Exe    string        // the binary to start (default: this one)
+	// Handover, if set, builds the script beside its interpreted run and hands the run over
+	// to the compiled script when it is ready (handover.go); nil runs interpreted only.
+	Handover *Handover
 	// Also, if set, writes more files into the folder of a finished, not interrupted run, after
 	// its outputs and under the folder's lock (tally run -html: index.html); an error fails the
 	// run as a failed write does.
@@ -146,6 +150,7 @@ type parent struct {
 	dir   string
 	shard *longrun.Part
 
+	seen     int         // points passed on to the callbacks (a hand-over's successor repeats them)
 	pos      string      // the statement the script last reached
 	partial  *result.Run // the run so far (finished points)
 	got      *result.Run // the finished run (done)
@@ -157,16 +162,33 @@ type parent struct {
 	resumable bool
 }
 
+// run runs the job in a child of exe; when the compiled script is ready to take the run over
+// (handover.go), in a second child, the compiled script, from where the first stopped.
 func (p *parent) run(ctx context.Context, exe string) error {
+	j := newJob(p.path, p.c.Host, p.c.Memory)
+	hd := p.startBuild(ctx, &j)
+	defer hd.end()
+	for {
+		err, handed := p.stage(ctx, exe, j, hd)
+		if !handed {
+			return err
+		}
+		exe, j = p.next(ctx, exe, j, hd)
+	}
+}
+
+// stage runs one child: the interpreter's, or the compiled script's continuing a run. handed
+// is true when the child stopped for a hand-over, its checkpoint saved.
+func (p *parent) stage(ctx context.Context, exe string, j job, hd *handing) (err error, handed bool) {
 	reportsR, reportsW, err := os.Pipe()
 	if err != nil {
-		return err
+		return err, false
 	}
 	defer reportsR.Close()
 	ctlR, ctlW, err := os.Pipe()
 	if err != nil {
 		reportsW.Close()
-		return err
+		return err, false
 	}
 	defer ctlW.Close()
 	log := p.c.Host.Log
@@ -177,7 +199,7 @@ func (p *parent) run(ctx context.Context, exe string) error {
 	if err != nil {
 		reportsW.Close()
 		ctlR.Close()
-		return err
+		return err, false
 	}
 	cmd := exec.Command(exe)
 	cmd.Env = append(os.Environ(), envChild+"="+protocol)
@@ -201,10 +223,10 @@ func (p *parent) run(ctx context.Context, exe string) error {
 		if copyLog != nil {
 			copyLog()
 		}
-		return fmt.Errorf("tally: cannot start the run: %w", err)
+		return fmt.Errorf("tally: cannot start the run: %w", err), false
 	}
 	ctl := gob.NewEncoder(ctlW)
-	ctl.Encode(newJob(p.path, p.c.Host, p.c.Memory))
+	ctl.Encode(j)
 
 	reports := make(chan report)
 	go func() {
@@ -228,6 +250,12 @@ func (p *parent) run(ctx context.Context, exe string) error {
 	defer rss.Stop()
 	overRSS := int64(0)
 	done := ctx.Done()
+	ready := hd.readyFor(j)
+	var yield <-chan time.Time
+	progressed := false // the child reported a point or its progress
+	if ready != nil || j.HandAt != nil {
+		yield = time.After(yieldAfter)
+	}
 	kill := func() {
 		if !killed {
 			killed = true
@@ -245,6 +273,11 @@ loop:
 			case kindPos:
 				p.pos = r.Pos
 			case kindPoint:
+				progressed = true
+				if len(r.Run.Points) <= p.seen {
+					continue // a point the run reported before its hand-over
+				}
+				p.seen = len(r.Run.Points)
 				// As in host.Run: Point after each point that ended (not skipped, not
 				// interrupted), OnPoint after every point.
 				if n := len(r.Run.Points); n > 0 && r.Run.Points[n-1].Stop != "interrupted" && r.Run.Points[n-1].Stop != "skipped" {
@@ -257,12 +290,14 @@ loop:
 					p.c.Host.OnPoint(r.Run, r.Total)
 				}
 			case kindLive:
+				progressed = true
 				if p.c.Host.OnProgress != nil && r.Live != nil {
 					pr := r.Live.Prefix
-					p.c.Host.OnProgress(r.Live.point(), &pr)
+					p.c.Host.OnProgress(r.Live.Point(), &pr)
 				}
 			case kindDone:
 				p.got = r.Run
+				hd.record(r.Run, p.c.Handover)
 				if p.c.Host.Done != nil {
 					p.doneErr = p.c.Host.Done(r.Run)
 				}
@@ -286,6 +321,22 @@ loop:
 			stopped = true
 			ctl.Encode(reply{Stop: true})
 			grace = time.After(p.c.Grace)
+		case <-yield:
+			// A script still running after this long, its first progress shown, is worth
+			// handing over: the build comes first from now on.
+			switch {
+			case !hd.building():
+			case !progressed:
+				yield = time.After(progress.Every)
+			default:
+				yieldCPU(cmd.Process.Pid)
+			}
+		case <-ready:
+			// The compiled script is built (or cannot be): hand the run over to it.
+			ready = nil
+			if hd.usable(p.log()) && !stopped && p.got == nil {
+				ctl.Encode(reply{Stop: true, Handover: true})
+			}
 		case <-grace:
 			kill()
 		case <-rss.C:
@@ -315,42 +366,45 @@ loop:
 		if memory != nil {
 			held = memory.Bytes
 		}
-		return p.failure(fmt.Sprintf("the run used %s of memory, over its limit of %s (-memory raises it): a frame, a table or a slice of the script too large?", Size(held), Size(p.c.Memory)))
+		return p.failure(fmt.Sprintf("the run used %s of memory, over its limit of %s (-memory raises it): a frame, a table or a slice of the script too large?", Size(held), Size(p.c.Memory))), false
+	}
+	if end != nil && end.Interrupted && end.Handover {
+		return nil, true
 	}
 	if end == nil {
 		if stopped {
-			return p.interrupted()
+			return p.interrupted(), false
 		}
 		msg, resumable := crashMessage(crash.Bytes(), werr)
 		p.resumable = resumable
-		return p.failure(msg)
+		return p.failure(msg), false
 	}
 	switch {
 	case end.Interrupted:
-		return p.interrupted()
+		return p.interrupted(), false
 	case end.Err != "":
 		if p.doneErr != nil && end.Err == p.doneErr.Error() {
-			return p.doneErr
+			return p.doneErr, false
 		}
 		if p.writeErr != nil && end.Err == p.writeErr.Error() {
 			p.resumable = true // a full disk, say: the frames are worth keeping
-			return p.writeErr
+			return p.writeErr, false
 		}
 		if end.Script {
-			return &host.ScriptError{Pos: end.Pos, Msg: end.Err}
+			return &host.ScriptError{Pos: end.Pos, Msg: end.Err}, false
 		}
 		p.resumable = true
-		return errors.New(end.Err)
+		return errors.New(end.Err), false
 	case werr != nil && !killed:
 		// The script ended well but the process did not: a goroutine the script started
 		// crashed it on the way out.
 		msg, _ := crashMessage(crash.Bytes(), werr)
-		return p.failure(msg)
+		return p.failure(msg), false
 	}
 	if crash.Len() > 0 {
 		log.Write(crash.Bytes()) // a trusted script's own writes to stderr
 	}
-	return nil
+	return nil, false
 }
 
 // failure is a run that ended without the script's say: at the statement it last reached.

@@ -161,7 +161,7 @@ func TestProgressMessage(t *testing.T) {
 	if err := gob.NewDecoder(&buf).Decode(&out); err != nil {
 		t.Fatal(err)
 	}
-	got, gpr := out.Live.point(), out.Live.Prefix
+	got, gpr := out.Live.Point(), out.Live.Prefix
 	if got.Label != p.Label || got.Index != p.Index || got.Total != p.Total || got.Confidence != p.Confidence || got.Method != p.Method || got.Tap != p.Tap {
 		t.Errorf("point %+v, sent %+v", got, p)
 	}

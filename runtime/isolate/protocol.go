@@ -1,13 +1,8 @@
 package isolate
 
 import (
-	"time"
-
-	"tally/blocks/stop"
 	"tally/runtime/host"
-	"tally/runtime/longrun"
-	"tally/runtime/progress"
-	"tally/runtime/result"
+	"tally/runtime/internal/wire"
 )
 
 // The parent and its child talk over two pipes, each a stream of gob values (gob, not JSON:
@@ -22,109 +17,38 @@ import (
 //	              (its OnProgress is set)
 //	    done      the finished run; the parent answers with a reply (its Done's verdict)
 //	    write     the run's outputs are due in Dir; the parent writes them and replies
-//	    end       the script ended: Err empty, or the script's mistake (Pos, Err)
+//	    end       the script ended: Err empty, or the script's mistake (Pos, Err); or it
+//	              stopped for a hand-over (Handover), its checkpoint saved
 //	    memory    the child is over its memory limit and ends itself
 //	fd 4, parent → child: the job, then replies to done and write, or a stop (Ctrl-C, a
-//	    newer save); the child ends when this pipe closes (its parent is gone)
+//	    newer save; or, with Handover, the compiled program is ready to continue the run);
+//	    the child ends when this pipe closes (its parent is gone)
 //	fd 5, child → parent: the progress lines (the parent's own stderr when it is a file)
 //
 // The child's stderr carries nothing but what the Go runtime prints when the child crashes;
 // the parent reads it to name the cause and never shows it.
 
-// Report kinds, child to parent.
-const (
-	kindPos    = "pos"
-	kindPoint  = "point"
-	kindLive   = "progress"
-	kindDone   = "done"
-	kindWrite  = "write"
-	kindEnd    = "end"
-	kindMemory = "memory"
+// The messages are defined in runtime/internal/wire, which a compiled script's process (a run
+// handed over to it, handover.go) speaks too.
+type (
+	report = wire.Report
+	job    = wire.Job
+	live   = wire.Live
+	reply  = wire.Reply
 )
 
-// report is one message from the child.
-type report struct {
-	Kind        string
-	Pos         string      // pos, end: file:line:col
-	Err         string      // end: the mistake, "" when the script ended well
-	Script      bool        // end: Err is a mistake in the script (at Pos)
-	Interrupted bool        // end: the run was stopped by the parent
-	Run         *result.Run // point, done
-	Total       int         // point: points in the sweep
-	Live        *live       // progress
-	Dir         string      // write
-	Bytes       int64       // memory: what the child held
-}
+var liveOf = wire.LiveOf
 
-// job is what the child is to run: the command line's settings, no writer and no callback.
-type job struct {
-	Path    string
-	Workers int
-	Seed    uint64
-	SeedSet bool
-	Quiet   bool
-	Trust   bool
-	Memory  int64 // bytes
-	Follow  bool  // send progress messages (the parent has an OnProgress)
-	// long-run settings (longrun.Settings without a merge's replay)
-	Long    bool
-	Resume  bool
-	Restart bool
-	Every   time.Duration
-	Shard   *longrun.Part
-	Extend  bool
-}
-
-// live is a progress message: progress.Point without its rules, which are script values the
-// pipe cannot carry, but with the rules a goal and the time left are read from
-// (progress.Goals, progress.Left); and the engine's prefix.
-type live struct {
-	Label        string
-	Index, Total int
-	Confidence   float64
-	Method       string
-	Tap          string // the governing tap the line counts
-	Errors       []stop.ErrorTarget
-	Bits         []stop.BitCap
-	Time         []stop.TimeLimit
-	Prefix       stop.Progress
-}
-
-func liveOf(p progress.Point, pr *stop.Progress) *live {
-	l := &live{Label: p.Label, Index: p.Index, Total: p.Total, Confidence: p.Confidence, Method: p.Method, Tap: p.Tap, Prefix: *pr}
-	for _, r := range p.Rules {
-		switch r := r.(type) {
-		case *stop.ErrorTarget:
-			l.Errors = append(l.Errors, *r)
-		case *stop.BitCap:
-			l.Bits = append(l.Bits, *r)
-		case *stop.TimeLimit:
-			l.Time = append(l.Time, *r)
-		}
-	}
-	return l
-}
-
-// point is the progress.Point the parent hands its OnProgress.
-func (l *live) point() progress.Point {
-	p := progress.Point{Label: l.Label, Index: l.Index, Total: l.Total, Confidence: l.Confidence, Method: l.Method, Tap: l.Tap}
-	for i := range l.Errors {
-		p.Rules = append(p.Rules, &l.Errors[i])
-	}
-	for i := range l.Bits {
-		p.Rules = append(p.Rules, &l.Bits[i])
-	}
-	for i := range l.Time {
-		p.Rules = append(p.Rules, &l.Time[i])
-	}
-	return p
-}
-
-// reply is a message from the parent: an answer to done or write, or a stop.
-type reply struct {
-	Stop bool
-	Err  string // the answer: "" accepted, else why not
-}
+// Report kinds, child to parent.
+const (
+	kindPos    = wire.KindPos
+	kindPoint  = wire.KindPoint
+	kindLive   = wire.KindLive
+	kindDone   = wire.KindDone
+	kindWrite  = wire.KindWrite
+	kindEnd    = wire.KindEnd
+	kindMemory = wire.KindMemory
+)
 
 func newJob(path string, c host.Config, memory int64) job {
 	j := job{Path: path, Workers: c.Workers, Seed: c.Seed, SeedSet: c.SeedSet, Quiet: c.Quiet, Trust: c.Trust, Memory: memory,
@@ -135,10 +59,10 @@ func newJob(path string, c host.Config, memory int64) job {
 	return j
 }
 
-func (j job) config() host.Config {
-	c := host.Config{Workers: j.Workers, Seed: j.Seed, SeedSet: j.SeedSet, Quiet: j.Quiet, Trust: j.Trust}
+func config(j job) host.Config {
+	c := host.Config{Workers: j.Workers, Seed: j.Seed, SeedSet: j.SeedSet, Quiet: j.Quiet, Trust: j.Trust, Reported: j.Reported}
 	if j.Long {
-		c.Long = &longrun.Settings{Resume: j.Resume, Restart: j.Restart, Every: j.Every, Shard: j.Shard, Extend: j.Extend}
+		c.Long = j.Settings()
 	}
 	return c
 }

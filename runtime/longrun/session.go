@@ -142,7 +142,9 @@ func (s *Session) openCheckpoint() error {
 			at = fmt.Sprintf(", point %d from frame %d", p.Index, p.Frames)
 		}
 	}
-	j.Logf("resume: %d finished point(s)%s, from %s\n", done, at, s.path)
+	if !s.set.HandedOver {
+		j.Logf("resume: %d finished point(s)%s, from %s\n", done, at, s.path)
+	}
 	return nil
 }
 

@@ -23,6 +23,10 @@ type Settings struct {
 	Shard *Part
 	// Extend (with Shard) continues from the shard file, up to the plan a short merge left.
 	Extend bool
+	// HandedOver (with Resume): the checkpoint or shard file was left by the interpreter of this
+	// same run, which handed it over to the compiled program (runtime/isolate); it is continued
+	// without the note a resume prints.
+	HandedOver bool
 	// Replay (a merge) takes every frame's counts from the shards instead of computing them.
 	Replay *Merged
 	// Short is filled by a replay whose shards ran out before some point met its rules.

@@ -38,6 +38,11 @@ type Run struct {
 	Shown []string `json:"shown,omitempty"`
 	// Specs are the rates the stop rules claim a tap below or above (stop.Below, stop.Above).
 	Specs []Spec `json:"specs,omitempty"`
+
+	// Execution, for a run tally started, says how it was computed: interpreted, compiled, or
+	// handed over from the interpreter to the compiled script (Mode names the last).
+	Execution *Execution `json:"execution,omitempty"`
+
 	// Scatter is one frame's received samples at a chosen point, for the constellation plot
 	// (not part of run.json: the plot is the record).
 	Scatter *Scatter  `json:"-"`

@@ -45,6 +45,10 @@ func Fail(err error) {
 	if !errors.As(err, &f) || f.Pos == "" {
 		f = &Failure{Pos: scriptPos(callers(3)), Err: err}
 	}
+	if child != nil {
+		child.end(f)
+		os.Exit(0)
+	}
 	fmt.Fprintln(os.Stderr, f.Error())
 	os.Exit(1)
 }
@@ -72,7 +76,7 @@ func scriptPos(pcs []uintptr) string {
 	for {
 		fr, more := frames.Next()
 		if fr.File == scriptFile {
-			return fmt.Sprintf("%s:%d", displayPath(fr.File), fr.Line)
+			return shownPos(fr.File, fr.Line)
 		}
 		if !more {
 			return ""

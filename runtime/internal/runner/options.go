@@ -10,6 +10,7 @@ import (
 	"runtime"
 
 	"tally/blocks/stop"
+	"tally/runtime/internal/wire"
 	"tally/runtime/longrun"
 	"tally/runtime/progress"
 	"tally/runtime/result"
@@ -49,6 +50,14 @@ type Options struct {
 	// Output, if set, writes a finished run's files into dir instead of output.Write (the
 	// isolated child hands them to its parent).
 	Output func(dir string, r *result.Run) error
+	// HandAt and Handover, if both set: the run calls Handover once point HandAt.Point has
+	// committed HandAt.Frame frames (0: before its first), to hand the run over there (tests);
+	// Handover cancels Context with ErrHandover.
+	HandAt   *wire.Spot
+	Handover func()
+	// Reported is the number of points the run this one continues (a hand-over) has reported
+	// already: their lines are not printed again.
+	Reported int
 
 	ran string // the name of the experiment this script has run; a script runs one
 }
@@ -61,6 +70,14 @@ var compiled *Options
 func CommandLine() *Options {
 	if compiled != nil {
 		return compiled
+	}
+	if o, ok := childOptions(); ok {
+		// Started by tally to continue a run (runtime/isolate): the job is its command line.
+		if _, file, _, ok := runtime.Caller(2); ok {
+			scriptFile = file
+		}
+		compiled = o
+		return o
 	}
 	o := &Options{Mode: "compiled", Seed: DefaultSeed}
 	fs := flag.NewFlagSet("experiment", flag.ContinueOnError)

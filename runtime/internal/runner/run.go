@@ -56,7 +56,20 @@ func Run(s *Spec, o *Options) {
 			o.ran, output.Dir(o.Script)+string(filepath.Separator), s.Name)})
 	}
 	o.ran = s.Name
+	if child != nil {
+		child.started()
+	}
+	begin()
 	r, err := x.execute()
+	ended()
+	if errors.Is(err, ErrInterrupted) && o.handingOver() {
+		// Stopped at a commit boundary for a hand-over: the checkpoint holds the committed
+		// prefix and the program the run is handed to writes the outputs.
+		if hosted {
+			panic(err)
+		}
+		r = nil
+	}
 	if err != nil && !errors.Is(err, ErrInterrupted) {
 		var f *Failure
 		var pe *engine.PanicError
@@ -78,8 +91,15 @@ func Run(s *Spec, o *Options) {
 		if hosted {
 			panic(err)
 		}
+		if child != nil {
+			child.end(err)
+			os.Exit(0)
+		}
 		fmt.Fprintln(os.Stderr, "interrupted: finished points written")
 		os.Exit(130)
+	}
+	if child != nil {
+		child.end(nil) // the script's main goes on; tally waits for the process to end
 	}
 }
 
@@ -128,6 +148,9 @@ func (x *experiment) execute() (*result.Run, error) {
 		Tool: Version, GoVersion: goruntime.Version(), Mode: o.Mode, Seed: seed, Workers: workers,
 		Confidence: x.Confidence, Method: x.Method, Start: time.Now().UTC(),
 	}
+	if o.Mode == "compiled" && child == nil {
+		run.Execution = &result.Execution{How: "compiled"} // go run (tally itself records a hand-over)
+	}
 	for _, p := range x.Params {
 		run.Params = append(run.Params, p.Name)
 	}
@@ -144,7 +167,9 @@ func (x *experiment) execute() (*result.Run, error) {
 	for _, pt := range points {
 		if skip, why := x.skip(run, pt); skip {
 			run.Points = append(run.Points, x.skipped(run, pt, why))
-			x.opts.logf("%s  skipped: %s\n", pt.text(), why)
+			if pt.Index >= o.Reported {
+				x.opts.logf("%s  skipped: %s\n", pt.text(), why)
+			}
 			if o.OnPoint != nil {
 				o.OnPoint(run, len(points))
 			}
@@ -154,6 +179,9 @@ func (x *experiment) execute() (*result.Run, error) {
 		if err != nil {
 			return nil, err
 		}
+		if rp.Stop == engine.Interrupted && o.handingOver() {
+			return run, ErrInterrupted // the point goes on where the run is handed to
+		}
 		if !checked && rp.Stop != engine.Interrupted {
 			if err := x.checkShown(rp); err != nil {
 				return nil, err
@@ -162,7 +190,9 @@ func (x *experiment) execute() (*result.Run, error) {
 		}
 		run.Taps = unionTaps(run.Taps, rp.Taps)
 		run.Points = append(run.Points, rp)
-		x.report(pt, rp)
+		if pt.Index >= o.Reported {
+			x.report(pt, rp)
+		}
 		if o.Point != nil && rp.Stop != engine.Interrupted {
 			o.Point(run)
 		}
@@ -214,6 +244,9 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		where = func() string { return scriptPos(callers(5)) }
 	}
 	spec := engine.Spec{Point: pt.Index, Label: pt.text(), Build: build, Rules: rules, Seed: seed, Workers: workers, Where: where}
+	if h := x.opts.handAtPoint(pt.Index); h != nil {
+		spec.Observers = append(spec.Observers, h)
+	}
 	// The long-run session adds the checkpoint, shard or replay around the engine run.
 	lp := longrun.Point{Index: pt.Index, Values: pt.Values, Label: pt.text()}
 	out, err := x.long.Run(lp, spec, func(s engine.Spec) (engine.Outcome, error) { return x.runEngine(ctx, pt, rules, s) })

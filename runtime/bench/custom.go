@@ -1,0 +1,208 @@
+package bench
+
+import (
+	"bytes"
+	"context"
+	_ "embed"
+	"fmt"
+	"io"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"slices"
+	"strconv"
+	"sync"
+	"time"
+
+	"tally/blocks/stop"
+	"tally/runtime/compile"
+	"tally/runtime/host"
+	"tally/runtime/isolate"
+	"tally/runtime/progress"
+	"tally/runtime/result"
+)
+
+// HandoverScript is the custom-block case of tally bench -custom (handover_script.go): a
+// two-branch combiner over Rayleigh
+// fading written as a block of the script's own, per sample.
+//
+//go:embed handover_script.go
+var HandoverScript []byte
+
+// CustomOptions are tally bench -custom's settings.
+type CustomOptions struct {
+	Bits    int64 // bits per point of the custom-block script
+	Workers int   // workers (0: all cores)
+	// Exe is the tally binary whose child processes run the script (default: this one, which
+	// must serve them: see isolate.Child).
+	Exe string
+}
+
+// CustomResult is one way of running the custom-block script, from the command to its end.
+type CustomResult struct {
+	Path  string        // "interpreted", "handed over", "compiled", …
+	Wall  time.Duration // the whole run: for compiled, go build plus running the program
+	First time.Duration // from the start to the first progress report or point (0: not seen)
+	Bits  int64         // bits counted over all points
+	Table []byte        // its table.csv (the same bytes on every path)
+	Note  string        // what else the path says (where it was handed over, the build's time)
+}
+
+// A CustomPath runs the custom-block script one way in the folder dir (the script is
+// dir/custom.go). Paths are reported in Order.
+type CustomPath struct {
+	Name  string
+	Order int
+	Run   func(ctx context.Context, o CustomOptions, dir string) (CustomResult, error)
+}
+
+// CustomPaths are the ways tally bench -custom runs its case. Another file of this package may
+// add one (a script variant, say) from its init.
+var CustomPaths = []CustomPath{
+	{Name: "interpreted", Order: 10, Run: func(ctx context.Context, o CustomOptions, dir string) (CustomResult, error) {
+		return tallyRun(ctx, o, dir, nil)
+	}},
+	{Name: "handed over", Order: 30, Run: func(ctx context.Context, o CustomOptions, dir string) (CustomResult, error) {
+		return tallyRun(ctx, o, dir, &isolate.Handover{Cache: filepath.Join(dir, "cache")})
+	}},
+	{Name: "compiled", Order: 40, Run: goBuildRun},
+}
+
+// HandoverSource is the custom-block script with its bit count per point set to bits.
+func HandoverSource(bits int64) []byte {
+	return bitsLine.ReplaceAll(HandoverScript, []byte("const bits = "+strconv.FormatInt(bits, 10)))
+}
+
+// Custom writes tally bench -custom's figures to w: the custom-block script run by tally run
+// interpreted only, by tally run with its hand-over to the compiled script (the build included,
+// from an empty binary cache; Go's own build cache as it is), and by go build plus running the
+// program; the wall time of each, its first progress, and the ratio the hand-over's target is
+// judged on (tally run ≤ 1.2 × go build plus running the program). A warm-up build first
+// fills Go's build cache, so both builds find tally's packages compiled. Every path must write
+// the same table.
+func Custom(ctx context.Context, o CustomOptions, w io.Writer) error {
+	if o.Bits < 4096 {
+		return fmt.Errorf("bench: -custom-bits %d is less than one frame (4096 bits)", o.Bits)
+	}
+	paths := slices.Clone(CustomPaths)
+	slices.SortStableFunc(paths, func(a, b CustomPath) int { return a.Order - b.Order })
+	fmt.Fprintf(w, "custom block: two-branch combiner over Rayleigh fading, per sample in the script's own code;\n"+
+		"6 points of %d bits, %d workers (0: all cores), wall clock from the command to its end\n", o.Bits, o.Workers)
+	// Both builds below then find tally's packages in Go's build cache, as a user's second
+	// build does; what is measured is building the script and linking.
+	if dir, err := os.MkdirTemp("", "tally-bench-warm-"); err == nil {
+		t := time.Now()
+		_, err := compile.Script(ctx, compile.Request{Script: filepath.Join(dir, "custom.go"), Source: HandoverSource(o.Bits + 1), Cache: dir, Tool: host.Version})
+		os.RemoveAll(dir)
+		if err != nil {
+			return fmt.Errorf("bench: custom block: %w", err)
+		}
+		fmt.Fprintf(w, "warm-up build %.1f s (fills Go's build cache with tally's packages)\n", time.Since(t).Seconds())
+	}
+	var rs []CustomResult
+	for _, p := range paths {
+		dir, err := os.MkdirTemp("", "tally-bench-custom-")
+		if err != nil {
+			return err
+		}
+		err = os.WriteFile(filepath.Join(dir, "custom.go"), HandoverSource(o.Bits), 0o644)
+		var r CustomResult
+		if err == nil {
+			r, err = p.Run(ctx, o, dir)
+		}
+		os.RemoveAll(dir)
+		if err != nil {
+			return fmt.Errorf("bench: custom block, %s: %w", p.Name, err)
+		}
+		r.Path = p.Name
+		if len(rs) > 0 && !bytes.Equal(r.Table, rs[0].Table) {
+			return fmt.Errorf("bench: custom block: %s wrote another table than %s", r.Path, rs[0].Path)
+		}
+		rs = append(rs, r)
+		first := "—"
+		if r.First > 0 {
+			first = fmt.Sprintf("%.0f ms", r.First.Seconds()*1e3)
+		}
+		fmt.Fprintf(w, "%-12s wall=%-9s first progress=%-8s Mbit/s=%-8.3f %s\n", r.Path, progress.Duration(r.Wall), first,
+			float64(r.Bits)/r.Wall.Seconds()/1e6, r.Note)
+	}
+	var hand, comp *CustomResult
+	for i := range rs {
+		switch rs[i].Path {
+		case "handed over":
+			hand = &rs[i]
+		case "compiled":
+			comp = &rs[i]
+		}
+	}
+	if hand != nil && comp != nil {
+		fmt.Fprintf(w, "ratio        handed over / (go build + run) = %.2f (target ≤ 1.2); the same table on every path\n", hand.Wall.Seconds()/comp.Wall.Seconds())
+	}
+	return nil
+}
+
+// tallyRun runs dir/custom.go as tally run does (a child process, the hand-over h or none).
+func tallyRun(ctx context.Context, o CustomOptions, dir string, h *isolate.Handover) (CustomResult, error) {
+	var once sync.Once
+	var first time.Duration
+	var run *result.Run
+	start := time.Now()
+	seen := func() { once.Do(func() { first = time.Since(start) }) }
+	cfg := isolate.Config{Exe: o.Exe, Handover: h, Host: host.Config{Workers: o.Workers, Quiet: true, Log: io.Discard,
+		OnProgress: func(progress.Point, *stop.Progress) { seen() },
+		OnPoint:    func(*result.Run, int) { seen() },
+		Done:       func(r *result.Run) error { run = r; return nil }}}
+	if err := isolate.Run(ctx, filepath.Join(dir, "custom.go"), cfg); err != nil {
+		return CustomResult{}, err
+	}
+	r := CustomResult{Wall: time.Since(start), First: first}
+	if run != nil {
+		r.Bits = bitsOf(run)
+		if e := run.Execution; e != nil && e.At != nil {
+			r.Note = fmt.Sprintf("(handed over at point %d, frame %d; build %.1f s)", e.At.Point, e.At.Frame, e.BuildSeconds)
+		} else if e != nil && e.Why != "" {
+			r.Note = "(stayed interpreted: " + e.Why + ")"
+		}
+	}
+	var err error
+	r.Table, err = os.ReadFile(filepath.Join(dir, "custom", "table.csv"))
+	return r, err
+}
+
+// goBuildRun builds dir/custom.go with the Go toolchain (as the hand-over does, into an empty
+// binary cache) and runs the program, as go build and ./program would.
+func goBuildRun(ctx context.Context, o CustomOptions, dir string) (CustomResult, error) {
+	src, err := os.ReadFile(filepath.Join(dir, "custom.go"))
+	if err != nil {
+		return CustomResult{}, err
+	}
+	start := time.Now()
+	b, err := compile.Script(ctx, compile.Request{Script: filepath.Join(dir, "custom.go"), Source: src, Cache: filepath.Join(dir, "cache"), Tool: host.Version})
+	if err != nil {
+		return CustomResult{}, err
+	}
+	built := time.Since(start)
+	cmd := exec.CommandContext(ctx, b.Path, "-quiet", "-workers", strconv.Itoa(o.Workers))
+	cmd.Dir = dir
+	var out bytes.Buffer
+	cmd.Stdout, cmd.Stderr = &out, &out
+	if err := cmd.Run(); err != nil {
+		return CustomResult{}, fmt.Errorf("%v: %s", err, out.String())
+	}
+	r := CustomResult{Wall: time.Since(start), Note: fmt.Sprintf("(go build %.1f s, run %.1f s)", built.Seconds(), (time.Since(start) - built).Seconds())}
+	// Built with -trimpath, the program names its script main.go: its outputs are in main/.
+	r.Table, err = os.ReadFile(filepath.Join(dir, "main", "table.csv"))
+	r.Bits = o.Bits * 6
+	return r, err
+}
+
+// bitsOf is the bits a run counted over its points (the first tap, the BER's).
+func bitsOf(r *result.Run) int64 {
+	var n int64
+	for _, p := range r.Points {
+		if len(p.Taps) > 0 {
+			n += p.Taps[0].Trials
+		}
+	}
+	return n
+}

@@ -1,0 +1,12 @@
+//go:build !unix
+
+package compile
+
+import (
+	"context"
+	"os/exec"
+)
+
+func lowPriority(ctx context.Context, name string, args ...string) *exec.Cmd {
+	return exec.CommandContext(ctx, name, args...)
+}

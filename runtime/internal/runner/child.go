@@ -1,0 +1,162 @@
+package runner
+
+import (
+	"context"
+	"encoding/gob"
+	"errors"
+	"fmt"
+	"os"
+	"os/signal"
+	"runtime/debug"
+	"runtime/metrics"
+	"sync"
+	"time"
+
+	"tally/blocks/stop"
+	"tally/runtime/internal/wire"
+	"tally/runtime/progress"
+	"tally/runtime/result"
+)
+
+// A compiled script started by tally as a run's process (runtime/isolate hands an interpreted
+// run over to it) speaks the interpreter's process's protocol (runtime/internal/wire): it reads
+// its job instead of a command line, continues the run from the checkpoint the interpreter
+// left, reports points, progress and the finished run to tally, which writes the outputs, and
+// ends its run with an end report. What its main prints before Run was printed by the
+// interpreter already and is dropped.
+
+// child is the compiled program's side of the pipes (nil: not started by tally).
+var child *childPipes
+
+type childPipes struct {
+	mu      sync.Mutex
+	enc     *gob.Encoder
+	answers chan wire.Reply
+	stdout  *os.File // the real standard output, from Run on
+	shown   string   // the script's path as tally named it, for positions
+}
+
+// childOptions reads the job of a compiled run's process and makes its options; ok is false
+// when this process was not started so.
+func childOptions() (o *Options, ok bool) {
+	v := os.Getenv(wire.EnvChild)
+	if v == "" {
+		return nil, false
+	}
+	if v != wire.Protocol {
+		fmt.Fprintf(os.Stderr, "tally: compiled run of another version (protocol %q, this program %q)\n", v, wire.Protocol)
+		os.Exit(2)
+	}
+	os.Unsetenv(wire.EnvChild)
+	out, ctl, logf := os.NewFile(3, "reports"), os.NewFile(4, "control"), os.NewFile(5, "log")
+	if out == nil || ctl == nil || logf == nil {
+		fmt.Fprintln(os.Stderr, "tally: compiled run started without its pipes")
+		os.Exit(2)
+	}
+	for fd := 3; fd <= 5; fd++ {
+		closeOnExec(fd)
+	}
+	c := &childPipes{enc: gob.NewEncoder(out), answers: make(chan wire.Reply)}
+	dec := gob.NewDecoder(ctl)
+	var j wire.Job
+	if err := dec.Decode(&j); err != nil {
+		fmt.Fprintln(os.Stderr, "tally: compiled run: no job:", err)
+		os.Exit(2)
+	}
+	signal.Ignore(os.Interrupt) // the parent stops the run by its pipe
+	debug.SetMaxStack(32 << 20)
+	if j.Memory > 0 {
+		debug.SetMemoryLimit(j.Memory)
+		go c.watchMemory(j.Memory)
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	go func() {
+		for {
+			var r wire.Reply
+			if err := dec.Decode(&r); err != nil {
+				os.Exit(3) // the parent is gone: nothing may outlive it
+			}
+			if r.Stop {
+				cancel()
+				continue
+			}
+			c.answers <- r
+		}
+	}()
+	c.stdout, c.shown = os.Stdout, j.Path
+	if null, err := os.OpenFile(os.DevNull, os.O_WRONLY, 0); err == nil {
+		os.Stdout = null
+	}
+	child = c
+	o = &Options{Context: ctx, Script: j.Path, Source: j.Source, Mode: "compiled", Workers: j.Workers, Seed: j.Seed,
+		SeedSet: j.SeedSet, Quiet: j.Quiet, Log: logf, Long: j.Settings(), Reported: j.Reported}
+	o.OnPoint = func(r *result.Run, total int) { c.send(wire.Report{Kind: wire.KindPoint, Run: r, Total: total}) }
+	if j.Follow {
+		o.OnProgress = func(p progress.Point, pr *stop.Progress) {
+			c.send(wire.Report{Kind: wire.KindLive, Live: wire.LiveOf(p, pr)})
+		}
+	}
+	o.Done = func(r *result.Run) error {
+		c.send(wire.Report{Kind: wire.KindDone, Run: r})
+		return c.answer()
+	}
+	o.Output = func(dir string, _ *result.Run) error {
+		c.send(wire.Report{Kind: wire.KindWrite, Dir: dir})
+		return c.answer()
+	}
+	return o, true
+}
+
+func (c *childPipes) send(r wire.Report) {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if err := c.enc.Encode(r); err != nil {
+		os.Exit(3) // the parent stopped listening
+	}
+}
+
+func (c *childPipes) answer() error {
+	r := <-c.answers
+	if r.Err != "" {
+		return errors.New(r.Err)
+	}
+	return nil
+}
+
+// started gives the script its standard output back: from Run on, what it prints is new.
+func (c *childPipes) started() {
+	if c.stdout != nil {
+		os.Stdout = c.stdout
+	}
+}
+
+// end reports the end of the run: err nil (finished), ErrInterrupted, or a mistake.
+func (c *childPipes) end(err error) {
+	e := wire.Report{Kind: wire.KindEnd}
+	var f *Failure
+	switch {
+	case err == nil:
+	case errors.Is(err, ErrInterrupted):
+		e.Interrupted = true
+	case errors.As(err, &f):
+		e.Script, e.Pos, e.Err = true, f.Pos, f.Err.Error()
+	default:
+		e.Err = err.Error()
+	}
+	c.send(e)
+}
+
+// watchMemory ends the process when the memory the Go runtime holds from the system stays
+// above the limit (as the interpreter's process does).
+func (c *childPipes) watchMemory(limit int64) {
+	s := []metrics.Sample{{Name: "/memory/classes/total:bytes"}, {Name: "/memory/classes/heap/released:bytes"}}
+	for {
+		time.Sleep(25 * time.Millisecond)
+		metrics.Read(s)
+		held := int64(s[0].Value.Uint64() - s[1].Value.Uint64())
+		if held > limit {
+			c.send(wire.Report{Kind: wire.KindMemory, Bytes: held})
+			os.Exit(4)
+		}
+	}
+}

@@ -1,0 +1,5 @@
+//go:build !unix
+
+package runner
+
+func closeOnExec(fd int) {}
