@@ -23,8 +23,7 @@ import (
 )
 
 // HandoverScript is the custom-block case of tally bench -custom (handover_script.go): a
-// two-branch combiner over Rayleigh
-// fading written as a block of the script's own, per sample.
+// two-branch combiner over Rayleigh fading written as a block of the script's own, per sample.
 //
 //go:embed handover_script.go
 var HandoverScript []byte
