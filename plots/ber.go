@@ -164,7 +164,11 @@ func BER(r *result.Run) (*Figure, error) {
 			panel.Add(s)
 			key.styles = append(key.styles, s.line)
 		}
-		legend.Add("theory: "+name, key)
+		label := "theory: " + name
+		if name == "theory" {
+			label = "theory" // the typed surface's unnamed theory column
+		}
+		legend.Add(label, key)
 	}
 	if many {
 		// With a colour per curve, the taps after the first are told apart by their marks.

@@ -312,3 +312,21 @@ func TestTheoryKeyMatchesItsLines(t *testing.T) {
 		}
 	}
 }
+
+// The typed surface's unnamed theory column ("theory") is labelled plainly, not "theory: theory".
+func TestBERUnnamedTheoryLabel(t *testing.T) {
+	run := sampleRun(true, false)
+	run.Theory = []string{"theory"}
+	f, err := BER(run)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := f.SVG()
+	if err != nil {
+		t.Fatal(err)
+	}
+	texts, _ := svgTexts(t, b)
+	if has(texts, "theory: theory") || !has(texts, "theory") {
+		t.Errorf("legend texts %q: want a plain \"theory\"", texts)
+	}
+}
