@@ -66,6 +66,7 @@ type job struct {
 	Trust   bool
 	Memory  int64 // bytes
 	Follow  bool  // send progress messages (the parent has an OnProgress)
+	Reuse   bool  // host.Config.Reuse
 	// long-run settings (longrun.Settings without a merge's replay)
 	Long    bool
 	Resume  bool
@@ -127,7 +128,7 @@ type reply struct {
 
 func newJob(path string, c host.Config, memory int64) job {
 	j := job{Path: path, Workers: c.Workers, Seed: c.Seed, SeedSet: c.SeedSet, Quiet: c.Quiet, Trust: c.Trust, Memory: memory,
-		Follow: c.OnProgress != nil}
+		Follow: c.OnProgress != nil, Reuse: c.Reuse}
 	if l := c.Long; l != nil {
 		j.Long, j.Resume, j.Restart, j.Every, j.Shard, j.Extend = true, l.Resume, l.Restart, l.Every, l.Shard, l.Extend
 	}
@@ -135,7 +136,7 @@ func newJob(path string, c host.Config, memory int64) job {
 }
 
 func (j job) config() host.Config {
-	c := host.Config{Workers: j.Workers, Seed: j.Seed, SeedSet: j.SeedSet, Quiet: j.Quiet, Trust: j.Trust}
+	c := host.Config{Workers: j.Workers, Seed: j.Seed, SeedSet: j.SeedSet, Quiet: j.Quiet, Trust: j.Trust, Reuse: j.Reuse}
 	if j.Long {
 		c.Long = &longrun.Settings{Resume: j.Resume, Restart: j.Restart, Every: j.Every, Shard: j.Shard, Extend: j.Extend}
 	}

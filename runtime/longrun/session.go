@@ -11,6 +11,7 @@ import (
 	"tally/blocks/link"
 	"tally/blocks/stop"
 	"tally/runtime/engine"
+	"tally/runtime/framelog"
 	"tally/runtime/result"
 )
 
@@ -229,6 +230,7 @@ type checkpointer struct {
 	s      *Session
 	cur    PointState
 	counts []link.Tally
+	log    *framelog.Log // the prefix frame by frame (nil: a resumed prefix without one)
 	before time.Duration
 	start  time.Time
 }
@@ -237,6 +239,7 @@ func (c *checkpointer) Started(taps []string) {
 	c.cur.Taps = taps
 	if c.counts == nil {
 		c.counts = make([]link.Tally, len(taps))
+		c.log = framelog.New(len(taps))
 	}
 }
 
@@ -245,7 +248,11 @@ func (c *checkpointer) Committed(f int64, counts []link.Tally) {
 		c.counts[i].Add(counts[i])
 	}
 	c.cur.Frames++
+	if c.log != nil {
+		c.log.Add(counts)
+	}
 	if c.s.due() {
+		c.cur.Log = c.log
 		c.cur.SetTallies(c.counts)
 		c.cur.Seconds = (c.before + time.Since(c.start)).Seconds()
 		c.s.ck.Set(c.cur)
@@ -262,7 +269,10 @@ func (s *Session) checkpoint(pt Point, spec engine.Spec, run Runner) (engine.Out
 			}
 			c.before = time.Duration(ps.Seconds * float64(time.Second))
 			c.counts = ps.Tallies()
-			spec.Start = &engine.State{Frames: ps.Frames, Counts: append([]link.Tally(nil), c.counts...), Elapsed: c.before}
+			if ps.Log != nil && ps.Log.Frames == ps.Frames {
+				c.log = ps.Log.Clone()
+			}
+			spec.Start = &engine.State{Frames: ps.Frames, Counts: append([]link.Tally(nil), c.counts...), Elapsed: c.before, Log: ps.Log.Clone()}
 			c.cur.Frames = ps.Frames
 		}
 	}
@@ -275,6 +285,7 @@ func (s *Session) checkpoint(pt Point, spec engine.Spec, run Runner) (engine.Out
 	cur := c.cur
 	cur.Frames, cur.Seconds = out.Frames, out.Elapsed.Seconds()
 	cur.SetTallies(out.Counts)
+	cur.Log = out.Log
 	if out.Stop != engine.Interrupted {
 		cur.Stop = out.Stop
 	}

@@ -128,6 +128,9 @@ func Run(ctx context.Context, paths []string, cfg Config) error {
 	if cfg.Debounce <= 0 {
 		cfg.Debounce = 30 * time.Millisecond
 	}
+	// A point whose link is unchanged since the last good run replays its frames (reuse.go in
+	// the runner) instead of computing them again.
+	cfg.Host.Reuse = true
 	w := &watcher{cfg: cfg, out: cfg.Out, dirs: map[string]bool{}, watched: map[string]os.FileInfo{}, files: map[string]*file{},
 		pending: map[string]time.Time{}, empty: map[string]bool{}, done: make(chan outcome, 1)}
 	if w.out == nil {
