@@ -223,3 +223,35 @@ func Read(r *bufio.Reader) (*Log, error) {
 	}
 	return l, l.Check()
 }
+
+// Pair walks the first n frames of two logs together, calling fn for each stretch of frames
+// over which neither log's counts change: its length and each log's counts (tap i's trials and
+// errors at 2i, 2i+1). n beyond either log is cut to the shorter.
+func Pair(a, b *Log, n int64, fn func(count int64, ca, cb []int64)) {
+	if !a.Usable() || !b.Usable() {
+		return
+	}
+	n = min(n, a.Frames, b.Frames)
+	sa, sb := a.stride(), b.stride()
+	i, j := 0, 0
+	var leftA, leftB int64
+	if len(a.Runs) > 0 {
+		leftA = a.Runs[0]
+	}
+	if len(b.Runs) > 0 {
+		leftB = b.Runs[0]
+	}
+	for at := int64(0); at < n; {
+		m := min(leftA, leftB, n-at)
+		fn(m, a.Runs[i+1:i+sa], b.Runs[j+1:j+sb])
+		at += m
+		if leftA -= m; leftA == 0 && i+sa < len(a.Runs) {
+			i += sa
+			leftA = a.Runs[i]
+		}
+		if leftB -= m; leftB == 0 && j+sb < len(b.Runs) {
+			j += sb
+			leftB = b.Runs[j]
+		}
+	}
+}

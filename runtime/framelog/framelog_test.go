@@ -106,3 +106,30 @@ func TestLogDamaged(t *testing.T) {
 		t.Error("a damaged log was read")
 	}
 }
+
+// Pair gives every frame of the common prefix once, with both logs' counts for it.
+func TestPair(t *testing.T) {
+	r := rand.New(rand.NewPCG(3, 4))
+	fa, fb := frames(3000, r), frames(2500, r)
+	a, b := New(3), New(3)
+	for _, c := range fa {
+		a.Add(c)
+	}
+	for _, c := range fb {
+		b.Add(c)
+	}
+	var k int64
+	Pair(a, b, 1<<40, func(m int64, ca, cb []int64) {
+		for range m {
+			for i := range 3 {
+				if ca[2*i] != fa[k][i].Trials || ca[2*i+1] != fa[k][i].Errors || cb[2*i] != fb[k][i].Trials || cb[2*i+1] != fb[k][i].Errors {
+					t.Fatalf("frame %d, tap %d: %v %v, want %v %v", k, i, ca, cb, fa[k], fb[k])
+				}
+			}
+			k++
+		}
+	})
+	if k != 2500 {
+		t.Errorf("%d frames paired, want 2500", k)
+	}
+}

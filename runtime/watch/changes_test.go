@@ -1,11 +1,11 @@
 package watch
 
 import (
-	"fmt"
 	"strings"
 	"testing"
 
 	"tally/blocks/compare"
+	"tally/blocks/stats"
 	"tally/runtime/result"
 )
 
@@ -20,7 +20,7 @@ func counts(seed uint64, ks ...int64) *result.Run {
 
 func TestChangesSameCounts(t *testing.T) {
 	got := Changes(counts(1, 100, 20), counts(1, 100, 20))
-	if len(got) != 1 || got[0] != "same counts at all 2 points" {
+	if len(got) != 1 || got[0] != "all 2 points: same counts" {
 		t.Errorf("Changes = %q", got)
 	}
 }
@@ -33,8 +33,8 @@ func TestChangesFlagsRealMoves(t *testing.T) {
 	b, _ := compare.Proportions(100, 1e6, 104, 1e6)
 	adj := compare.Holm([]float64{a.P, b.P})
 	for _, want := range []string{
-		fmt.Sprintf("ebn0_db=0  ber 0.0001 → 0.0003 (×3)  CHANGED, p = %.2g", adj[0]),
-		fmt.Sprintf("ebn0_db=2  ber 0.0001 → 0.000104 (×1.04)  within chance, p = %.2g", adj[1]),
+		"ebn0_db=0  ber 0.0001 → 0.0003 (×3)  CHANGED, " + stats.FormatP(adj[0]) + " (Fisher on totals)",
+		"ebn0_db=2  ber 0.0001 → 0.000104 (×1.04)  within chance, " + stats.FormatP(adj[1]),
 		"Holm-adjusted over 2 points",
 	} {
 		if !strings.Contains(got, want) {
@@ -86,20 +86,11 @@ func TestChangesBurstyOnEffectiveCounts(t *testing.T) {
 	}
 	eff, _ := compare.Proportions(50, 50000, 60, 50000)
 	got := strings.Join(Changes(bursty(1000), bursty(1200)), "\n")
-	if want := fmt.Sprintf("within chance, p = %.2g", eff.P); !strings.Contains(got, want) {
+	if want := "within chance, " + stats.FormatP(eff.P); !strings.Contains(got, want) {
 		t.Errorf("got\n%s\nwant %q", got, want)
 	}
 	// The same counts, not shown bursty, are a change.
 	if got := strings.Join(Changes(counts(1, 1000), counts(1, 1200)), "\n"); !strings.Contains(got, "CHANGED") {
 		t.Errorf("independent counts not flagged:\n%s", got)
-	}
-}
-
-// A p-value below what a float64 carries prints as a bound, not 0.
-func TestPText(t *testing.T) {
-	for p, want := range map[float64]string{0: "p < 1e-300", 7.2e-310: "p < 1e-300", 2.3e-58: "p = 2.3e-58", 0.05: "p = 0.05"} {
-		if got := pText(p); got != want {
-			t.Errorf("pText(%g) = %q, want %q", p, got, want)
-		}
 	}
 }

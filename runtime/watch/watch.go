@@ -507,7 +507,17 @@ func (w *watcher) finish(o outcome) {
 
 // report prints a finished run and what changed since the last, and returns those lines.
 func (w *watcher) report(path string, prev, run *result.Run, took time.Duration) []string {
-	w.printf("%s: %d points in %s → %s%c\n", path, len(run.Points), progress.Duration(took), output.Dir(path), filepath.Separator)
+	reused := ""
+	n := 0
+	for _, p := range run.Points {
+		if p.FramesReused > 0 && p.FramesReused == p.Frames {
+			n++
+		}
+	}
+	if n > 0 {
+		reused = fmt.Sprintf(" (%d reused)", n)
+	}
+	w.printf("%s: %d points%s in %s → %s%c\n", path, len(run.Points), reused, progress.Duration(took), output.Dir(path), filepath.Separator)
 	if prev == nil {
 		return nil
 	}
