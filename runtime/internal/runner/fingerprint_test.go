@@ -116,3 +116,12 @@ func TestRulesFingerprint(t *testing.T) {
 		}
 	}
 }
+
+// The fingerprint of a large code's link: read once per point, before its frames.
+func BenchmarkLinkFingerprintLDPC(b *testing.B) {
+	c, m := fec.LDPCPEG(8160, 4080, 3), modem.BPSK()
+	l := link.Chain(source.Random(4080), c.Encoder(), m.Mod(), channel.AWGN(2), m.Demod().LogMAP(), c.Decoder())
+	for b.Loop() {
+		linkFingerprint(l, point(0, 2), 1, "s")
+	}
+}
