@@ -38,6 +38,8 @@ type PointState struct {
 	// Log is the prefix frame by frame (format v3), so a resumed run keeps the per-frame
 	// counts of the frames it did not compute again. Absent: the run ends without them.
 	Log *framelog.Log `json:"frame_log,omitempty"`
+	// Fingerprint is the link fingerprint the frames were computed under (format v3).
+	Fingerprint string `json:"link_fingerprint,omitempty"`
 }
 
 // CheckpointPath is the checkpoint of the run whose outputs go to dir.

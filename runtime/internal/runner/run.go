@@ -226,7 +226,7 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 	}
 	spec := engine.Spec{Point: pt.Index, Label: pt.text(), Build: engineBuild, Rules: rules, Seed: seed, Workers: workers, Where: where}
 	// The long-run session adds the checkpoint, shard or replay around the engine run.
-	lp := longrun.Point{Index: pt.Index, Values: pt.Values, Label: pt.text()}
+	lp := longrun.Point{Index: pt.Index, Values: pt.Values, Label: pt.text(), Fingerprint: fp}
 	var reused int64
 	out, err := x.long.Run(lp, spec, func(s engine.Spec) (engine.Outcome, error) {
 		out, n, err := x.reuseOrRun(ctx, pt, rules, s, x.prev[fp])
