@@ -196,7 +196,7 @@ func Changes(prev, next *result.Run) []string {
 				"frame-level differences, valid under any stop rule (Waudby-Smith et al. 2024)")
 		}
 		if tests["fisher"] > 0 {
-			how = append(how, "Fisher on totals: the last run kept no per-frame counts, so its totals are compared by Fisher's exact test "+
+			how = append(how, "Fisher on totals: where a run kept no per-frame counts (an older results folder), the totals are compared by Fisher's exact test "+
 				"(bursty points on their effective counts, Rao–Scott 1981)")
 		}
 		note := "p: " + strings.Join(how, "; ") + "; CHANGED at α = " + strconv.FormatFloat(alpha, 'g', 3, 64)

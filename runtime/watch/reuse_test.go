@@ -190,7 +190,7 @@ func TestWatchOlderResultsFallBack(t *testing.T) {
 	e := h.wait(Finished, exp)
 	got := changesOf(e)
 	t.Logf("the report:\n%s", got)
-	for _, want := range []string{"CHANGED", "(Fisher on totals)", "the last run kept no per-frame counts"} {
+	for _, want := range []string{"CHANGED", "(Fisher on totals)", "where a run kept no per-frame counts (an older results folder)"} {
 		if !strings.Contains(got, want) {
 			t.Errorf("the report lacks %q:\n%s", want, got)
 		}
