@@ -23,7 +23,9 @@ import (
 // Log is one point's per-frame counts in frame order. Runs holds, per run of equal frames,
 // the run's length and then each tap's trials and errors: [n, trials₀, errors₀, trials₁, …].
 // Only plain counts are kept: a frame counted with weights (an estimator) stops the log
-// (Dropped), since its weighted sums are not in it.
+// (Dropped), since its weighted sums are not in it; so does a log that would grow past
+// MaxValues (a long point at a high error rate, where nearly every frame differs), so that
+// memory stays bounded however many bits a point counts.
 type Log struct {
 	Taps    int     `json:"taps"`
 	Frames  int64   `json:"frames"`
@@ -32,6 +34,9 @@ type Log struct {
 
 	starts []int64 // frame where each run begins (index); built on the first look-up
 }
+
+// MaxValues bounds a log: 2²¹ values, 16 MiB.
+const MaxValues = 1 << 21
 
 // New is an empty log of frames counted by taps taps.
 func New(taps int) *Log { return &Log{Taps: taps} }
@@ -71,6 +76,10 @@ func (l *Log) Add(c []link.Tally) {
 			l.Runs[k]++
 			return
 		}
+	}
+	if len(l.Runs)+s > MaxValues {
+		l.drop()
+		return
 	}
 	l.Runs = append(l.Runs, 1)
 	for _, t := range c {
@@ -195,10 +204,6 @@ func (l *Log) WriteTo(w io.Writer) (int64, error) {
 	return int64(n), err
 }
 
-// maxRuns bounds the values a log read from a file may claim, so a damaged file cannot make
-// the reader allocate without end.
-const maxRuns = 1 << 28
-
 // Read reads a log written by WriteTo and checks it.
 func Read(r *bufio.Reader) (*Log, error) {
 	var v [4]uint64
@@ -209,7 +214,7 @@ func Read(r *bufio.Reader) (*Log, error) {
 		}
 		v[i] = x
 	}
-	if v[0] > 1<<16 || v[3] > maxRuns {
+	if v[0] > 1<<16 || v[3] > MaxValues {
 		return nil, errors.New("frame log: implausible size")
 	}
 	l := &Log{Taps: int(v[0]), Frames: int64(v[1]), Dropped: v[2] == 1}

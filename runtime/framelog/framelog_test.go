@@ -133,3 +133,14 @@ func TestPair(t *testing.T) {
 		t.Errorf("%d frames paired, want 2500", k)
 	}
 }
+
+// Memory stays bounded: a log that would pass MaxValues is dropped, not grown.
+func TestLogBounded(t *testing.T) {
+	l := New(1)
+	for k := range MaxValues {
+		l.Add([]link.Tally{{Trials: 100, Errors: int64(k % 2)}})
+	}
+	if l.Usable() || len(l.Runs) != 0 {
+		t.Errorf("a log of %d frames that all differ kept %d values", MaxValues, len(l.Runs))
+	}
+}
