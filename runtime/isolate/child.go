@@ -87,7 +87,7 @@ func Serve() int {
 	cfg := j.config()
 	cfg.Log = logf
 	cfg.Stdout = os.Stdout
-	cfg.OnPoint = func(r *result.Run, total int) { c.send(report{Kind: kindPoint, Run: r, Total: total}) }
+	cfg.OnPoint = func(r *result.Run, total int) { c.send(report{Kind: kindPoint, Run: withoutLogs(r), Total: total}) }
 	if j.Follow {
 		cfg.OnProgress = c.progress
 	}
@@ -181,4 +181,15 @@ func (c *child) watchMemory(limit int64) {
 			os.Exit(4)
 		}
 	}
+}
+
+// withoutLogs is the run so far without its points' per-frame counts: the parent follows a run
+// point by point for its figures, and gets the frames with the finished run (done), once.
+func withoutLogs(r *result.Run) *result.Run {
+	c := *r
+	c.Points = append([]result.Point(nil), r.Points...)
+	for i := range c.Points {
+		c.Points[i].Log = nil
+	}
+	return &c
 }
