@@ -517,7 +517,7 @@ func (w *watcher) report(path string, prev, run *result.Run, took time.Duration)
 	if n > 0 {
 		reused = fmt.Sprintf(" (%d reused)", n)
 	}
-	w.printf("%s: %d points%s in %s → %s%c\n", path, len(run.Points), reused, progress.Duration(took), output.Dir(path), filepath.Separator)
+	w.printf("%s: %d points in %s → %s%c%s\n", path, len(run.Points), progress.Duration(took), output.Dir(path), filepath.Separator, reused)
 	if prev == nil {
 		return nil
 	}

@@ -2,6 +2,7 @@ package runner
 
 import (
 	"context"
+	"fmt"
 	"slices"
 
 	"tally/blocks/stop"
@@ -35,7 +36,16 @@ var (
 )
 
 // finishedLine is the log line of a finished point.
-func finishedLine(pt Point, rp result.Point) string { return progress.Finished(pt.text(), rp) }
+func finishedLine(pt Point, rp result.Point) string {
+	s := progress.Finished(pt.text(), rp)
+	switch n := rp.FramesReused; {
+	case n > 0 && n == rp.Frames:
+		s += "  (reused: the last run's frames replayed)"
+	case n > 0:
+		s += fmt.Sprintf("  (%d of %d frames replayed from the last run)", n, rp.Frames)
+	}
+	return s
+}
 
 func (x *experiment) pointCount() int {
 	n := 1
