@@ -229,3 +229,21 @@ func TestFramesFileRoundTrip(t *testing.T) {
 		t.Errorf("a damaged frames file read: %d points, %v", n, err)
 	}
 }
+
+// frames.gz is the same bytes for any number of workers, as table.csv is: frames are committed
+// in order whatever worker computed them (the engine's contract).
+func TestFramesSameForAnyWorkers(t *testing.T) {
+	script := sweepScript("CURVES", `"c1", "c2"`)
+	var got []string
+	for _, workers := range []int{1, 3} {
+		path := filepath.Join(t.TempDir(), "exp.go")
+		write(t, path, script)
+		if err := host.Run(context.Background(), path, host.Config{Quiet: true, Workers: workers}); err != nil {
+			t.Fatal(err)
+		}
+		got = append(got, read(t, filepath.Join(output.Dir(path), output.FramesName)))
+	}
+	if got[0] != got[1] {
+		t.Error("frames.gz differs between 1 and 3 workers")
+	}
+}
