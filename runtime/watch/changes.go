@@ -26,6 +26,7 @@ type row struct {
 	frames int64  // frames compared (paired)
 	same   bool   // same link: same frames
 	equal  bool   // same errors in every frame compared (paired)
+	few    bool   // too few frames in common to judge (paired)
 }
 
 // Changes says how each point moved from prev to next and whether the move is more than
@@ -92,7 +93,11 @@ func Changes(prev, next *result.Run) []string {
 			t := pairTally(r.oldP.Log, p.Log)
 			c := stats.ComparePaired(t, confidence)
 			r.frames, r.equal = t.Frames, c.Same
-			if !c.Same && !math.IsNaN(c.P) {
+			switch {
+			case c.Same, math.IsNaN(c.P):
+			case t.Frames < stats.MinPairedFrames && !c.Shown:
+				r.few = true // nothing judged: not a test for Holm's count either
+			default:
 				r.p, r.test = c.P, "paired"
 			}
 		case r.old.Errors == r.new.Errors && r.old.Trials == r.new.Trials:
@@ -145,6 +150,9 @@ func Changes(prev, next *result.Run) []string {
 			continue
 		case r.test == "":
 			s += fmt.Sprintf("ber %.3g → %.3g", r.old.Rate, r.new.Rate)
+			if r.few {
+				s += fmt.Sprintf("  not judged: %s in common, the paired test needs %d", frames(r.frames), stats.MinPairedFrames)
+			}
 			if r.new.Weighted() {
 				s += fmt.Sprintf("  (%s, interval [%.3g, %.3g]; not tested)", r.new.Estimator, r.new.Low, r.new.High)
 			}

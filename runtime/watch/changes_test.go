@@ -148,6 +148,11 @@ func TestChangesPairedFindsWhatTotalsMiss(t *testing.T) {
 	if got := strings.Join(Changes(logged("A", a), logged("B", b[:1000])), "\n"); !strings.Contains(got, "(paired, 1000 frames)") {
 		t.Errorf("not compared over the common frames:\n%s", got)
 	}
+	// Ten frames in common are too few to judge (stats.MinPairedFrames): said, not tested.
+	got = strings.Join(Changes(logged("A", a[:10]), logged("B", b[:10])), "\n")
+	if !strings.Contains(got, "not judged: 10 frames in common, the paired test needs 30") || strings.Contains(got, "p:") {
+		t.Errorf("ten frames judged:\n%s", got)
+	}
 }
 
 // The case in counts: the same link (fingerprint) with a changed stop rule counted
