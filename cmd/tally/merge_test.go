@@ -2,11 +2,13 @@ package main
 
 import (
 	"bytes"
+	"compress/gzip"
 	"crypto/sha256"
 	"encoding/hex"
 	"encoding/json"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"os/exec"
@@ -19,6 +21,7 @@ import (
 
 	"tally/runtime/isolate"
 	"tally/runtime/longrun"
+	"tally/runtime/output"
 	"tally/runtime/result"
 )
 
@@ -141,6 +144,26 @@ func tally(t *testing.T, bin, dir string, args ...string) proc {
 	return proc{code: cmd.ProcessState.ExitCode(), stdout: o.String(), stderr: e.String()}
 }
 
+// withFrames is table.csv with the per-frame counts kept beside it (frames.gz, decompressed
+// and shown in hex): a resumed or merged run keeps the same frames as one uninterrupted run.
+func withFrames(t *testing.T, dir string) string {
+	t.Helper()
+	f, err := os.Open(filepath.Join(dir, output.FramesName))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	zr, err := gzip.NewReader(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	raw, err := io.ReadAll(zr)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return table(t, dir) + "\nframes.gz: " + hex.EncodeToString(raw)
+}
+
 func table(t *testing.T, dir string) string {
 	t.Helper()
 	b, err := os.ReadFile(filepath.Join(dir, "table.csv"))
@@ -162,7 +185,12 @@ func TestLongRuns(t *testing.T) {
 	if p := tally(t, bin, dir, "run", "-quiet", "slow.go"); p.code != 0 {
 		t.Fatalf("reference run: exit %d\n%s", p.code, p.stderr)
 	}
-	want := table(t, filepath.Join(dir, "slow"))
+	want := withFrames(t, filepath.Join(dir, "slow"))
+	if r := output.ReadRecord(filepath.Join(dir, "slow")); r == nil {
+		t.Fatal("no run.json")
+	} else if n, err := output.ReadFrames(filepath.Join(dir, "slow"), r); n != len(r.Points) {
+		t.Fatalf("frames.gz holds %d of %d points (%v)", n, len(r.Points), err)
+	}
 	if _, err := os.Stat(filepath.Join(dir, "slow", "checkpoint.tally")); err == nil {
 		t.Errorf("a complete run left its checkpoint")
 	}
@@ -206,8 +234,8 @@ func killResume(t *testing.T, bin, want string) {
 			if saved > 0 && !strings.Contains(e.String(), "resume: ") {
 				t.Errorf("the last run did not resume from the checkpoint:\n%s", e.String())
 			}
-			if got := table(t, filepath.Join(dir, "slow")); got != want {
-				t.Errorf("after %d kills the table differs:\n%s\nwant\n%s", kills, got, want)
+			if got := withFrames(t, filepath.Join(dir, "slow")); got != want {
+				t.Errorf("after %d kills the table or the per-frame counts differ:\n%s\nwant\n%s", kills, got, want)
 			}
 			return
 		case <-time.After(after * time.Millisecond):
@@ -303,8 +331,8 @@ func shards(t *testing.T, bin string, n int, want string) {
 	if p.code != 0 {
 		t.Fatalf("merge: exit %d\n%s", p.code, p.stderr)
 	}
-	if got := table(t, filepath.Join(dir, "slow")); got != want {
-		t.Errorf("merged table of %d shards differs:\n%s\nwant\n%s", n, got, want)
+	if got := withFrames(t, filepath.Join(dir, "slow")); got != want {
+		t.Errorf("merged table or per-frame counts of %d shards differ:\n%s\nwant\n%s", n, got, want)
 	}
 	shardRecord(t, dir, n)
 }
@@ -406,7 +434,7 @@ func extendShard(t *testing.T, bin, want string) {
 	if p.code != 0 {
 		t.Fatalf("merge after -extend: exit %d\n%s", p.code, p.stderr)
 	}
-	if got := table(t, filepath.Join(dir, "slow")); got != want {
+	if got := withFrames(t, filepath.Join(dir, "slow")); got != want {
 		t.Errorf("merged table after extending differs:\n%s\nwant\n%s", got, want)
 	}
 }

@@ -20,6 +20,7 @@ import (
 	"tally/blocks/link"
 	"tally/blocks/stats"
 	"tally/blocks/stop"
+	"tally/runtime/framelog"
 )
 
 // Spec is one point's work.
@@ -143,6 +144,9 @@ type State struct {
 	Frames  int64
 	Counts  []link.Tally
 	Elapsed time.Duration // wall time already spent on it (time rules go on from there)
+	// Log, if set, holds the prefix frame by frame (Frames of them); the point's Outcome.Log
+	// goes on from it. Without it a point continued from a prefix keeps no log.
+	Log *framelog.Log
 }
 
 // Outcome is how a point ended.
@@ -154,6 +158,9 @@ type Outcome struct {
 	Rule     stop.Rule // the rule met (nil when interrupted)
 	Elapsed  time.Duration
 	Computed int64 // frames this run computed (excluding a resumed prefix)
+	// Log is the committed frames' own counts in frame order (nil for a shard, whose frames
+	// are not a prefix, and for a point continued from a prefix given without its log).
+	Log *framelog.Log
 }
 
 // Interrupted is the stop reason of a point ended by its context.

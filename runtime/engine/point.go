@@ -9,6 +9,7 @@ import (
 
 	"tally/blocks/link"
 	"tally/blocks/stop"
+	"tally/runtime/framelog"
 )
 
 // pointRun is one point being computed: its committed prefix, the rules' verdict on it, and
@@ -25,6 +26,7 @@ type pointRun struct {
 	start  time.Time
 	before time.Duration // wall time spent on the point before this run (resume)
 	shown  time.Time     // when Progress was last told
+	log    *framelog.Log // the committed frames, one by one (nil: not kept)
 }
 
 func newPointRun(s Spec, taps []string) (*pointRun, error) {
@@ -41,6 +43,13 @@ func newPointRun(s Spec, taps []string) (*pointRun, error) {
 	r.judged = r.prog
 	if s.Shard != nil {
 		r.judged = &r.est
+	}
+	switch {
+	case s.Shard != nil:
+	case s.Start == nil || s.Start.Frames == 0:
+		r.log = framelog.New(len(taps))
+	case s.Start.Log != nil && s.Start.Log.Frames == s.Start.Frames && s.Start.Log.Taps == len(taps):
+		r.log = s.Start.Log
 	}
 	r.start = time.Now()
 	r.shown = r.start
@@ -78,6 +87,9 @@ func (r *pointRun) commit(idx int64, counts []link.Tally, computed bool) bool {
 		r.prog.Counts[i].Add(counts[i])
 	}
 	r.prog.Frames++
+	if r.log != nil {
+		r.log.Add(counts)
+	}
 	if computed {
 		r.out.Computed++
 	}
@@ -101,6 +113,7 @@ func (r *pointRun) finish() Outcome {
 	out := r.out
 	out.Counts = append([]link.Tally(nil), r.prog.Counts...)
 	out.Frames = r.prog.Frames
+	out.Log = r.log
 	out.Elapsed = r.before + time.Since(r.start)
 	return out
 }

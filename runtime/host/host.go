@@ -60,6 +60,9 @@ type Config struct {
 	OnProgress func(p progress.Point, pr *stop.Progress)
 	// Long are the checkpoint, resume, shard and merge settings (nil: no checkpoint).
 	Long *longrun.Settings
+	// Reuse lets points whose fingerprint is unchanged since the outputs beside the script
+	// take their frames from them instead of computing them (tally watch; see runner.Options).
+	Reuse bool
 	// Point, if set, is given the run so far after each point ends (see sim.Options.Point).
 	Point func(r *result.Run)
 	// Output, if set, writes a finished run's files instead of output.Write.
@@ -117,7 +120,7 @@ func Run(ctx context.Context, path string, cfg Config) error {
 	mk.prep = prep
 	runner.Hosted()
 	opts := &runner.Options{Context: ctx, Script: path, Source: src, Mode: "interpreted", Workers: cfg.Workers,
-		Seed: cfg.Seed, SeedSet: cfg.SeedSet, Quiet: cfg.Quiet, Log: cfg.Log, Done: cfg.Done, Long: cfg.Long,
+		Seed: cfg.Seed, SeedSet: cfg.SeedSet, Quiet: cfg.Quiet, Log: cfg.Log, Done: cfg.Done, Long: cfg.Long, Reuse: cfg.Reuse,
 		Point: cfg.Point, Output: cfg.Output, OnPoint: cfg.OnPoint, OnProgress: cfg.OnProgress,
 		HandAt: cfg.HandAt, Handover: cfg.Handover, Reported: cfg.Reported}
 	var stderr bytes.Buffer

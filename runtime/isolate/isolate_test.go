@@ -8,12 +8,15 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"reflect"
 	"strings"
 	"testing"
 	"time"
 
 	"tally/blocks/link"
 	"tally/blocks/stop"
+	"tally/runtime/framelog"
+	"tally/runtime/host"
 	"tally/runtime/progress"
 	"tally/runtime/result"
 )
@@ -177,5 +180,33 @@ func TestProgressMessage(t *testing.T) {
 	}
 	if progress.Live(got, &gpr) != progress.Live(p, pr) || !strings.Contains(progress.Live(got, &gpr), "fer errors 9/20") {
 		t.Errorf("live line %q, in process %q", progress.Live(got, &gpr), progress.Live(p, pr))
+	}
+}
+
+// The finished run brings the per-frame counts and fingerprints of its points through the
+// pipe (the parent writes frames.gz from them); point messages leave the counts out. The job
+// carries tally watch's permission to reuse frames.
+func TestReportCarriesFrames(t *testing.T) {
+	l := framelog.New(2)
+	l.Add([]link.Tally{{Trials: 64, Errors: 3}, {Trials: 1, Errors: 1}})
+	l.Add([]link.Tally{{Trials: 64}, {Trials: 1}})
+	run := &result.Run{Points: []result.Point{{Frames: 2, LinkFingerprint: "fp", FramesReused: 1, Log: l}}}
+	var b bytes.Buffer
+	if err := gob.NewEncoder(&b).Encode(report{Kind: kindDone, Run: run}); err != nil {
+		t.Fatal(err)
+	}
+	var out report
+	if err := gob.NewDecoder(&b).Decode(&out); err != nil {
+		t.Fatal(err)
+	}
+	p := out.Run.Points[0]
+	if p.LinkFingerprint != "fp" || p.FramesReused != 1 || p.Log == nil || !reflect.DeepEqual(p.Log.Runs, l.Runs) || p.Log.Frames != 2 {
+		t.Errorf("decoded %+v, want the point as sent", p)
+	}
+	if w := withoutLogs(run); w.Points[0].Log != nil || run.Points[0].Log == nil {
+		t.Error("withoutLogs kept the counts, or took them from the run itself")
+	}
+	if !newJob("x.go", host.Config{Reuse: true}, 0).config().Reuse {
+		t.Error("the job dropped Reuse")
 	}
 }

@@ -52,7 +52,7 @@ const (
 
 func newJob(path string, c host.Config, memory int64) job {
 	j := job{Path: path, Workers: c.Workers, Seed: c.Seed, SeedSet: c.SeedSet, Quiet: c.Quiet, Trust: c.Trust, Memory: memory,
-		Follow: c.OnProgress != nil}
+		Follow: c.OnProgress != nil, Reuse: c.Reuse}
 	if l := c.Long; l != nil {
 		j.Long, j.Resume, j.Restart, j.Every, j.Shard, j.Extend = true, l.Resume, l.Restart, l.Every, l.Shard, l.Extend
 	}
@@ -60,7 +60,7 @@ func newJob(path string, c host.Config, memory int64) job {
 }
 
 func config(j job) host.Config {
-	c := host.Config{Workers: j.Workers, Seed: j.Seed, SeedSet: j.SeedSet, Quiet: j.Quiet, Trust: j.Trust, Reported: j.Reported}
+	c := host.Config{Workers: j.Workers, Seed: j.Seed, SeedSet: j.SeedSet, Quiet: j.Quiet, Trust: j.Trust, Reported: j.Reported, Reuse: j.Reuse}
 	if j.Long {
 		c.Long = j.Settings()
 	}

@@ -5,6 +5,7 @@ import (
 	"path/filepath"
 
 	"tally/blocks/link"
+	"tally/runtime/framelog"
 )
 
 // CheckpointName is the checkpoint's file name in a run's outputs folder.
@@ -34,6 +35,11 @@ type PointState struct {
 	Weights [][4]float64 `json:"weights,omitempty"`
 	Stop    string       `json:"stop,omitempty"` // the rule that ended it; empty while in progress
 	Seconds float64      `json:"seconds"`        // wall time spent on it
+	// Log is the prefix frame by frame (format v3), so a resumed run keeps the per-frame
+	// counts of the frames it did not compute again. Absent: the run ends without them.
+	Log *framelog.Log `json:"frame_log,omitempty"`
+	// Fingerprint is the link fingerprint the frames were computed under (format v3).
+	Fingerprint string `json:"link_fingerprint,omitempty"`
 }
 
 // CheckpointPath is the checkpoint of the run whose outputs go to dir.
@@ -49,6 +55,9 @@ func LoadCheckpoint(path string) (*Checkpoint, error) {
 		if p.Index < 0 || i > 0 && p.Index <= c.Points[i-1].Index || p.Frames < 0 || len(p.Counts) != len(p.Taps) ||
 			len(p.Weights) != 0 && len(p.Weights) != len(p.Taps) {
 			return nil, fmt.Errorf("%s: point %d is inconsistent", path, p.Index)
+		}
+		if p.Log != nil && (p.Log.Check() != nil || p.Log.Frames != p.Frames && !p.Log.Dropped) {
+			return nil, fmt.Errorf("%s: point %d: its frame log does not match its frames", path, p.Index)
 		}
 		if p.Stop == "" && i != len(c.Points)-1 {
 			return nil, fmt.Errorf("%s: point %d is unfinished but not the last", path, p.Index)

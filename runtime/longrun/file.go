@@ -31,9 +31,10 @@ import (
 )
 
 // Version is the format version of the files this package writes. Version 2 added the
-// weighted sums of the estimators (link.Estimator) beside the counts; this package reads
-// versions 1 and 2 (a version 1 body is a version 2 body without weights).
-const Version = 2
+// weighted sums of the estimators (link.Estimator) beside the counts, version 3 the
+// checkpoint's per-frame counts (PointState.Log); this package reads versions 1 to 3 (an
+// earlier body is a later one without what was added).
+const Version = 3
 
 // File kinds.
 const (
@@ -72,7 +73,7 @@ func Decode(data []byte, kind string, v any) error {
 	if f[1] != kind {
 		return fmt.Errorf("a tally %s file, not a %s file", f[1], kind)
 	}
-	if f[2] != "v"+strconv.Itoa(Version) && f[2] != "v1" {
+	if f[2] != "v"+strconv.Itoa(Version) && f[2] != "v2" && f[2] != "v1" {
 		return fmt.Errorf("format %s, this tally reads v%d", f[2], Version)
 	}
 	n, err := strconv.Atoi(f[3])

@@ -69,14 +69,17 @@ func TestWrongKindOrVersion(t *testing.T) {
 	if err := Decode(data, KindCheckpoint, &c); err == nil || !strings.Contains(err.Error(), "shard") {
 		t.Errorf("a shard file read as a checkpoint: %v", err)
 	}
-	v3 := strings.Replace(string(data), " v2 ", " v3 ", 1)
-	if err := Decode([]byte(v3), KindShard, &ShardFile{}); err == nil || !strings.Contains(err.Error(), "v3") {
-		t.Errorf("a v3 file: %v", err)
+	v4 := strings.Replace(string(data), " v3 ", " v4 ", 1)
+	if err := Decode([]byte(v4), KindShard, &ShardFile{}); err == nil || !strings.Contains(err.Error(), "v4") {
+		t.Errorf("a v4 file: %v", err)
 	}
-	// Version 1 files (before the estimators' weights) are still read.
-	v1 := strings.Replace(string(data), " v2 ", " v1 ", 1)
-	if err := Decode([]byte(v1), KindShard, &ShardFile{}); err != nil {
-		t.Errorf("a v1 file: %v", err)
+	// Version 1 and 2 files (before the estimators' weights, before the checkpoint's frame
+	// log) are still read.
+	for _, v := range []string{" v1 ", " v2 "} {
+		old := strings.Replace(string(data), " v3 ", v, 1)
+		if err := Decode([]byte(old), KindShard, &ShardFile{}); err != nil {
+			t.Errorf("a%sfile: %v", v, err)
+		}
 	}
 }
 

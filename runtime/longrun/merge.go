@@ -95,6 +95,17 @@ func (m *Merged) Frame(index int, f int64) ([]link.Tally, bool) {
 	return p.Frame(f / int64(m.Of))
 }
 
+// Fingerprinted reports whether every shard computed point index under link fingerprint fp
+// (see Point.Fingerprint).
+func (m *Merged) Fingerprinted(index int, fp string) bool {
+	for _, s := range m.shards {
+		if p := s.Point(index); p != nil && p.Frames > 0 && (p.Fingerprint == "" || p.Fingerprint != fp) {
+			return false
+		}
+	}
+	return fp != ""
+}
+
 // Covered is how many frames of point index the shards hold in order: frames 0..Covered-1.
 func (m *Merged) Covered(index int) int64 {
 	var c int64 = -1

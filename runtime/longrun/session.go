@@ -11,6 +11,7 @@ import (
 	"tally/blocks/link"
 	"tally/blocks/stop"
 	"tally/runtime/engine"
+	"tally/runtime/framelog"
 	"tally/runtime/result"
 )
 
@@ -63,6 +64,10 @@ type Point struct {
 	Index  int
 	Values []float64
 	Label  string // its parameters as the table shows them, for a merge that falls short
+	// Fingerprint is the point's link fingerprint (see result.Point): saved with its frames,
+	// so that frames computed under another fingerprint (another tally build) are never kept
+	// as this point's frame by frame.
+	Fingerprint string
 }
 
 // Open starts the session of a run with settings set: it checks a checkpoint or shard file it
@@ -234,6 +239,7 @@ type checkpointer struct {
 	s      *Session
 	cur    PointState
 	counts []link.Tally
+	log    *framelog.Log // the prefix frame by frame (nil: a resumed prefix without one)
 	before time.Duration
 	start  time.Time
 }
@@ -242,6 +248,7 @@ func (c *checkpointer) Started(taps []string) {
 	c.cur.Taps = taps
 	if c.counts == nil {
 		c.counts = make([]link.Tally, len(taps))
+		c.log = framelog.New(len(taps))
 	}
 }
 
@@ -250,7 +257,11 @@ func (c *checkpointer) Committed(f int64, counts []link.Tally) {
 		c.counts[i].Add(counts[i])
 	}
 	c.cur.Frames++
+	if c.log != nil {
+		c.log.Add(counts)
+	}
 	if c.s.due() {
+		c.cur.Log = c.log
 		c.cur.SetTallies(c.counts)
 		c.cur.Seconds = (c.before + time.Since(c.start)).Seconds()
 		c.s.ck.Set(c.cur)
@@ -259,7 +270,7 @@ func (c *checkpointer) Committed(f int64, counts []link.Tally) {
 }
 
 func (s *Session) checkpoint(pt Point, spec engine.Spec, run Runner) (engine.Outcome, error) {
-	c := &checkpointer{s: s, cur: PointState{Index: pt.Index, Values: pt.Values}}
+	c := &checkpointer{s: s, cur: PointState{Index: pt.Index, Values: pt.Values, Fingerprint: pt.Fingerprint}}
 	if s.old != nil {
 		if ps := s.old.Point(pt.Index); ps != nil {
 			if !slices.Equal(ps.Values, pt.Values) {
@@ -267,7 +278,17 @@ func (s *Session) checkpoint(pt Point, spec engine.Spec, run Runner) (engine.Out
 			}
 			c.before = time.Duration(ps.Seconds * float64(time.Second))
 			c.counts = ps.Tallies()
-			spec.Start = &engine.State{Frames: ps.Frames, Counts: append([]link.Tally(nil), c.counts...), Elapsed: c.before}
+			// The frame by frame counts go on only when they were computed under this
+			// fingerprint: the run's counts are the same either way (the script and seed
+			// are), but a later run may replay or pair what the log says.
+			var log *framelog.Log
+			if ps.Log != nil && ps.Log.Frames == ps.Frames && ps.Fingerprint == pt.Fingerprint {
+				log = ps.Log
+			} else {
+				c.cur.Fingerprint = ""
+			}
+			c.log = log.Clone()
+			spec.Start = &engine.State{Frames: ps.Frames, Counts: append([]link.Tally(nil), c.counts...), Elapsed: c.before, Log: log.Clone()}
 			c.cur.Frames = ps.Frames
 		}
 	}
@@ -280,6 +301,7 @@ func (s *Session) checkpoint(pt Point, spec engine.Spec, run Runner) (engine.Out
 	cur := c.cur
 	cur.Frames, cur.Seconds = out.Frames, out.Elapsed.Seconds()
 	cur.SetTallies(out.Counts)
+	cur.Log = out.Log
 	if out.Stop != engine.Interrupted {
 		cur.Stop = out.Stop
 	}
@@ -331,7 +353,7 @@ func (s *Session) shard(pt Point, spec engine.Spec, run Runner) (engine.Outcome,
 	part := *s.set.Shard
 	sp := s.sh.Point(pt.Index)
 	if sp == nil {
-		s.sh.Points = append(s.sh.Points, ShardPoint{Index: pt.Index, Values: pt.Values})
+		s.sh.Points = append(s.sh.Points, ShardPoint{Index: pt.Index, Values: pt.Values, Fingerprint: pt.Fingerprint})
 		slices.SortFunc(s.sh.Points, func(a, b ShardPoint) int { return a.Index - b.Index })
 		sp = s.sh.Point(pt.Index)
 	}
@@ -339,6 +361,11 @@ func (s *Session) shard(pt Point, spec engine.Spec, run Runner) (engine.Outcome,
 		return engine.Outcome{}, fmt.Errorf("shard: point %d of %s has values %v, the sweep %v; run with -restart", pt.Index, s.path, sp.Values, pt.Values)
 	}
 	before := time.Duration(sp.Seconds * float64(time.Second))
+	if sp.Frames == 0 {
+		sp.Fingerprint = pt.Fingerprint
+	} else if sp.Fingerprint != pt.Fingerprint {
+		sp.Fingerprint = "" // frames of two builds
+	}
 	if sp.Frames > 0 {
 		spec.Start = &engine.State{Frames: sp.Frames, Counts: sp.Sum(), Elapsed: before}
 	}
@@ -380,6 +407,9 @@ func (s *Session) replay(pt Point, spec engine.Spec, run Runner) (engine.Outcome
 	out.Elapsed = time.Duration(m.Seconds(pt.Index) * float64(time.Second))
 	if i := slices.Index(out.Taps, link.TapBER); i >= 0 {
 		s.used += out.Counts[i].Trials
+	}
+	if !m.Fingerprinted(pt.Index, pt.Fingerprint) {
+		out.Log = nil
 	}
 	if out.Stop == engine.Short {
 		need, _ := engine.Extrapolate(spec.Rules, &stop.Progress{Frames: out.Frames, Taps: out.Taps, Counts: out.Counts})

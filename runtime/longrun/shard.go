@@ -142,6 +142,9 @@ type ShardPoint struct {
 	// Weights are, when the point's link estimates with weights (format v2), one row per frame:
 	// per tap the estimator, the frame's Σ weights and Σ weights². Absent in plain counting.
 	Weights [][]float64 `json:"weights,omitempty"`
+	// Fingerprint is the link fingerprint its frames were computed under (format v3; empty
+	// when unknown or mixed: the merge then keeps no per-frame counts of the point).
+	Fingerprint string `json:"link_fingerprint,omitempty"`
 
 	starts []int64 // frame number (of this shard) where each run begins; built by index
 }

@@ -21,7 +21,7 @@ func Files(r *result.Run) ([]File, error) {
 	if err != nil {
 		return nil, err
 	}
-	files := []File{{"table.csv", Table(r)}, {"run.json", rec}}
+	files := []File{{"table.csv", Table(r)}, {"run.json", rec}, {FramesName, Frames(r)}}
 	plots, err := plotFiles(r)
 	if err != nil {
 		return nil, err

@@ -7,6 +7,8 @@ import (
 	"math"
 	"strconv"
 	"time"
+
+	"tally/runtime/framelog"
 )
 
 // Run is a finished (or interrupted) run of one experiment.
@@ -82,6 +84,20 @@ type Point struct {
 	Seconds float64   `json:"wall_seconds"`
 	BitRate float64   `json:"bits_per_second"`
 	Note    string    `json:"note,omitempty"` // why a point was skipped
+	// LinkFingerprint is a digest of everything that decides the point's frames (the program,
+	// seed, point and its link as built: every block with its parameters); WholeScript says it
+	// covers the whole script too, since the link holds a block or function of the script's
+	// own. RulesFingerprint is the digest of the stop rules. Two points with one link
+	// fingerprint compute the same counts for every frame.
+	LinkFingerprint  string `json:"link_fingerprint,omitempty"`
+	WholeScript      bool   `json:"link_fingerprint_covers_script,omitempty"`
+	RulesFingerprint string `json:"rules_fingerprint,omitempty"`
+	// FramesReused are the frames taken from the last good run's per-frame counts instead of
+	// computed (tally watch: a point whose link is unchanged).
+	FramesReused int64 `json:"frames_reused,omitempty"`
+	// Log is the point's committed per-frame counts (frames.gz beside run.json; nil when not
+	// kept: a shard, an estimator's weighted counts, or an older results folder).
+	Log *framelog.Log `json:"-"`
 	// Claim names the test behind the claim the stop word makes ("below", "above": the rate
 	// shown below or above a target), empty when the rule that ended the point claims
 	// nothing (a bit or time cap, an error count).

@@ -61,4 +61,11 @@ func experiments(dir string) ([]string, error) {
 
 // lastRun reads the run record beside a script, so the first run under watch can say what
 // changed since the outputs on disk. Nil when there is none or it does not parse.
-func lastRun(script string) *result.Run { return output.ReadRecord(output.Dir(script)) }
+func lastRun(script string) *result.Run {
+	dir := output.Dir(script)
+	r := output.ReadRecord(dir)
+	if r != nil {
+		output.ReadFrames(dir, r) // without them (an older run) Changes compares totals
+	}
+	return r
+}

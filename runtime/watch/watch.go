@@ -128,6 +128,9 @@ func Run(ctx context.Context, paths []string, cfg Config) error {
 	if cfg.Debounce <= 0 {
 		cfg.Debounce = 30 * time.Millisecond
 	}
+	// A point whose link is unchanged since the last good run replays its frames (reuse.go in
+	// the runner) instead of computing them again.
+	cfg.Host.Reuse = true
 	w := &watcher{cfg: cfg, out: cfg.Out, dirs: map[string]bool{}, watched: map[string]os.FileInfo{}, files: map[string]*file{},
 		pending: map[string]time.Time{}, empty: map[string]bool{}, done: make(chan outcome, 1)}
 	if w.out == nil {
@@ -504,7 +507,17 @@ func (w *watcher) finish(o outcome) {
 
 // report prints a finished run and what changed since the last, and returns those lines.
 func (w *watcher) report(path string, prev, run *result.Run, took time.Duration) []string {
-	w.printf("%s: %d points in %s → %s%c\n", path, len(run.Points), progress.Duration(took), output.Dir(path), filepath.Separator)
+	reused := ""
+	n := 0
+	for _, p := range run.Points {
+		if p.FramesReused > 0 && p.FramesReused == p.Frames {
+			n++
+		}
+	}
+	if n > 0 {
+		reused = fmt.Sprintf(" (%d reused)", n)
+	}
+	w.printf("%s: %d points in %s → %s%c%s\n", path, len(run.Points), progress.Duration(took), output.Dir(path), filepath.Separator, reused)
 	if prev == nil {
 		return nil
 	}

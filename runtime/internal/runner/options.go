@@ -45,6 +45,10 @@ type Options struct {
 	Where func() string
 	// Long are the checkpoint, resume, shard and merge settings; nil keeps no checkpoint.
 	Long *longrun.Settings
+	// Reuse lets a point whose link fingerprint matches one of the last good run beside the
+	// script (its run.json and frames.gz) replay that run's per-frame counts instead of
+	// computing them, going on computing where its rules ask for more frames (tally watch).
+	Reuse bool
 	// Point, if set, is given the run so far after each point ends (finished points only).
 	Point func(r *result.Run)
 	// Output, if set, writes a finished run's files into dir instead of output.Write (the

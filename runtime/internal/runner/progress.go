@@ -2,6 +2,7 @@ package runner
 
 import (
 	"context"
+	"fmt"
 	"slices"
 
 	"tally/blocks/stop"
@@ -34,9 +35,17 @@ var (
 	progressEvery = progress.Every
 )
 
-// finishedLine is the log line of a finished point, on the governing tap.
+// finishedLine is the log line of a finished point, on the governing tap, saying when its
+// frames were replayed from the last run.
 func (x *experiment) finishedLine(pt Point, rp result.Point) string {
-	return progress.FinishedOn(pt.text(), rp, x.tap)
+	s := progress.FinishedOn(pt.text(), rp, x.tap)
+	switch n := rp.FramesReused; {
+	case n > 0 && n == rp.Frames:
+		s += "  (reused: the last run's frames replayed)"
+	case n > 0:
+		s += fmt.Sprintf("  (%d of %d frames replayed from the last run)", n, rp.Frames)
+	}
+	return s
 }
 
 func (x *experiment) pointCount() int {

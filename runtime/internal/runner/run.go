@@ -41,6 +41,12 @@ type experiment struct {
 	long   *longrun.Session // checkpoint, shard or replay (nil: none)
 	tap    string           // the governing tap: the one the progress line counts
 	frames frameFit         // frame lengths rounded up (framefit.go)
+	// script is the script's identity for fingerprints (its bytes and the files it read),
+	// rulesPrint the stop rules' fingerprint; prev the last good run's points by link
+	// fingerprint, when Options.Reuse (reuse.go).
+	script     string
+	rulesPrint string
+	prev       map[string]*result.Point
 }
 
 // Run runs a script's experiment (sim.Experiment.Run): every point, then table.csv, run.json,
@@ -162,6 +168,11 @@ func (x *experiment) execute() (*result.Run, error) {
 	run.Shown = x.shownTaps(rules)
 	run.Specs = ruleSpecs(rules)
 	x.tap = run.Shown[0]
+	x.script = scriptIdentity(o.Source, x.Inputs)
+	x.rulesPrint = rulesFingerprint(rules, x.Confidence, x.Method, x.script)
+	if o.Reuse {
+		x.prev = previous(output.Dir(o.Script))
+	}
 	points := x.grid()
 	checked := false
 	for _, pt := range points {
@@ -243,17 +254,41 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 	if where == nil {
 		where = func() string { return scriptPos(callers(5)) }
 	}
-	spec := engine.Spec{Point: pt.Index, Label: pt.text(), Build: build, Rules: rules, Seed: seed, Workers: workers, Where: where}
+	// The point's link is built once here for its fingerprint, and handed to the engine as
+	// the first of its links.
+	first, err := build()
+	if err != nil {
+		return rp, err
+	}
+	fp, whole := linkFingerprint(first, pt, seed, x.script)
+	handed := false
+	engineBuild := func() (*link.Link, error) {
+		if !handed {
+			handed = true
+			return first, nil
+		}
+		return build()
+	}
+	spec := engine.Spec{Point: pt.Index, Label: pt.text(), Build: engineBuild, Rules: rules, Seed: seed, Workers: workers, Where: where}
 	if h := x.opts.handAtPoint(pt.Index); h != nil {
 		spec.Observers = append(spec.Observers, h)
 	}
 	// The long-run session adds the checkpoint, shard or replay around the engine run.
-	lp := longrun.Point{Index: pt.Index, Values: pt.Values, Label: pt.text()}
-	out, err := x.long.Run(lp, spec, func(s engine.Spec) (engine.Outcome, error) { return x.runEngine(ctx, pt, rules, s) })
+	lp := longrun.Point{Index: pt.Index, Values: pt.Values, Label: pt.text(), Fingerprint: fp}
+	var reused int64
+	out, err := x.long.Run(lp, spec, func(s engine.Spec) (engine.Outcome, error) {
+		out, n, err := x.reuseOrRun(ctx, pt, rules, s, x.prev[fp])
+		reused = n
+		return out, err
+	})
 	if err != nil {
 		return rp, err
 	}
-	rp = result.Point{Values: pt.Values, Frames: out.Frames, Stop: out.Stop, Seconds: out.Elapsed.Seconds()}
+	rp = result.Point{Values: pt.Values, Frames: out.Frames, Stop: out.Stop, Seconds: out.Elapsed.Seconds(),
+		LinkFingerprint: fp, WholeScript: whole, RulesFingerprint: x.rulesPrint, FramesReused: reused}
+	if out.Log.Usable() && out.Log.Frames == out.Frames {
+		rp.Log = out.Log
+	}
 	if c, ok := out.Rule.(interface{ Method() string }); ok {
 		rp.Claim = c.Method()
 	}

@@ -56,6 +56,7 @@ type Job struct {
 	Trust   bool
 	Memory  int64 // bytes
 	Follow  bool  // send progress messages (the parent has an OnProgress)
+	Reuse   bool  // host.Config.Reuse: replay the last good run's unchanged points
 	// long-run settings (longrun.Settings without a merge's replay)
 	Long    bool
 	Resume  bool
@@ -138,4 +139,15 @@ func (j Job) Settings() *longrun.Settings {
 		return nil
 	}
 	return &longrun.Settings{Resume: j.Resume, Restart: j.Restart, Every: j.Every, Shard: j.Shard, Extend: j.Extend, HandedOver: j.Continued}
+}
+
+// WithoutLogs is the run so far without its points' per-frame counts: the parent follows a run
+// point by point for its figures, and gets the frames with the finished run (done), once.
+func WithoutLogs(r *result.Run) *result.Run {
+	c := *r
+	c.Points = append([]result.Point(nil), r.Points...)
+	for i := range c.Points {
+		c.Points[i].Log = nil
+	}
+	return &c
 }

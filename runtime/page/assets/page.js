@@ -303,12 +303,12 @@
   }
   function changes(v) {
     if (!v.changes || !v.changes.length) return '<p class="muted">' + (v.good ? "nothing to compare with yet" : "no run yet") + "</p>";
-    var moved = v.changes.filter(function (l) { return /CHANGED, p =/.test(l); }).length;
-    var tested = v.changes.filter(function (l) { return /CHANGED, p =|within chance, p =/.test(l); }).length;
+    var moved = v.changes.filter(function (l) { return /CHANGED, p [=<]/.test(l); }).length;
+    var tested = v.changes.filter(function (l) { return /CHANGED, p [=<]|within chance, p [=<]/.test(l); }).length;
     var head = tested ? '<p class="verdict' + (moved ? " moved" : "") + '">' + (moved ? moved + " of " + tested + " compared points moved beyond chance" : "no point moved beyond chance (" + tested + " compared)") + "</p>" : "";
     return head + '<pre class="changes">' + v.changes.map(function (l) {
       var e = esc(l);
-      if (/CHANGED, p =/.test(l)) return '<span class="moved">' + e + "</span>";
+      if (/CHANGED, p [=<]/.test(l)) return '<span class="moved">' + e + "</span>";
       if (/within chance/.test(l)) return '<span class="chance">' + e + "</span>";
       return e;
     }).join("\n") + "</pre>";
