@@ -251,3 +251,7 @@ func firstLine(s string) string {
 	}
 	return s
 }
+
+// BuildIdentity is this tally build's identity in point fingerprints; the parent hands it to a
+// compiled script continuing a run, which is built from the same sources.
+func BuildIdentity() string { return runner.BuildIdentity() }

@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"reflect"
 	"strings"
+	"tally/runtime/internal/wire"
 	"testing"
 	"time"
 
@@ -203,10 +204,10 @@ func TestReportCarriesFrames(t *testing.T) {
 	if p.LinkFingerprint != "fp" || p.FramesReused != 1 || p.Log == nil || !reflect.DeepEqual(p.Log.Runs, l.Runs) || p.Log.Frames != 2 {
 		t.Errorf("decoded %+v, want the point as sent", p)
 	}
-	if w := withoutLogs(run); w.Points[0].Log != nil || run.Points[0].Log == nil {
+	if w := wire.WithoutLogs(run); w.Points[0].Log != nil || run.Points[0].Log == nil {
 		t.Error("withoutLogs kept the counts, or took them from the run itself")
 	}
-	if !newJob("x.go", host.Config{Reuse: true}, 0).config().Reuse {
-		t.Error("the job dropped Reuse")
+	if j := newJob("x.go", host.Config{Reuse: true}, 0); !config(j).Reuse || j.Build != host.BuildIdentity() {
+		t.Error("the job dropped Reuse or the build identity")
 	}
 }

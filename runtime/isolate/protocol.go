@@ -52,7 +52,7 @@ const (
 
 func newJob(path string, c host.Config, memory int64) job {
 	j := job{Path: path, Workers: c.Workers, Seed: c.Seed, SeedSet: c.SeedSet, Quiet: c.Quiet, Trust: c.Trust, Memory: memory,
-		Follow: c.OnProgress != nil, Reuse: c.Reuse}
+		Follow: c.OnProgress != nil, Reuse: c.Reuse, Build: host.BuildIdentity()}
 	if l := c.Long; l != nil {
 		j.Long, j.Resume, j.Restart, j.Every, j.Shard, j.Extend = true, l.Resume, l.Restart, l.Every, l.Shard, l.Extend
 	}

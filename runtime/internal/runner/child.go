@@ -64,6 +64,7 @@ func childOptions() (o *Options, ok bool) {
 		os.Exit(2)
 	}
 	signal.Ignore(os.Interrupt) // the parent stops the run by its pipe
+	adoptBuild(j.Build)
 	debug.SetMaxStack(32 << 20)
 	if j.Memory > 0 {
 		debug.SetMemoryLimit(j.Memory)

@@ -284,6 +284,19 @@ var (
 	buildID   string
 )
 
+// BuildIdentity is this tally build's identity for fingerprints, handed to a compiled script
+// that continues its run (wire.Job.Build): that program is built from the same sources, so
+// the frames it computes are this build's and keep this build's fingerprints.
+func BuildIdentity() string { return buildIdentity() }
+
+// adoptBuild makes id the build identity of this program, a compiled script continuing a run
+// handed over by the tally build id names; before any fingerprint is made.
+func adoptBuild(id string) {
+	if id != "" {
+		buildOnce.Do(func() { buildID = id })
+	}
+}
+
 // buildIdentity names this program's build: the Go build ID the linker writes near the start
 // of the executable (it changes whenever the program's code does), or, where it cannot be
 // read, the executable's size and modification time. Counts computed by another build of tally

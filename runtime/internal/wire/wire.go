@@ -54,9 +54,10 @@ type Job struct {
 	SeedSet bool
 	Quiet   bool
 	Trust   bool
-	Memory  int64 // bytes
-	Follow  bool  // send progress messages (the parent has an OnProgress)
-	Reuse   bool  // host.Config.Reuse: replay the last good run's unchanged points
+	Memory  int64  // bytes
+	Follow  bool   // send progress messages (the parent has an OnProgress)
+	Reuse   bool   // host.Config.Reuse: replay the last good run's unchanged points
+	Build   string // the parent tally's build identity, kept by a compiled child (fingerprints)
 	// long-run settings (longrun.Settings without a merge's replay)
 	Long    bool
 	Resume  bool
