@@ -25,6 +25,7 @@ func init() {
 		"Bursty":              reflect.ValueOf(stats.Bursty),
 		"ClopperPearson":      reflect.ValueOf(stats.ClopperPearson),
 		"Clustered":           reflect.ValueOf(stats.Clustered),
+		"ComparePaired":       reflect.ValueOf(stats.ComparePaired),
 		"ConfidenceBelow":     reflect.ValueOf(stats.ConfidenceBelow),
 		"CrossingMethod":      reflect.ValueOf(constant.MakeFromLiteral("\"log-linear interpolation between the bracketing points; interval from the points' limits (monotonic curve assumed)\"", token.STRING, 0)),
 		"Default":             reflect.ValueOf(constant.MakeFromLiteral("\"clopper-pearson\"", token.STRING, 0)),
@@ -33,6 +34,7 @@ func init() {
 		"Evidence":            reflect.ValueOf(stats.Evidence),
 		"ForFrames":           reflect.ValueOf(stats.ForFrames),
 		"ForPoint":            reflect.ValueOf(stats.ForPoint),
+		"FormatP":             reflect.ValueOf(stats.FormatP),
 		"FrameEvidence":       reflect.ValueOf(stats.FrameEvidence),
 		"FrameEvidenceMethod": reflect.ValueOf(constant.MakeFromLiteral("\"frame-level anytime test (Fan-Grama-Liu supermartingale, mixture over λ), valid for errors clustered in any way within frames\"", token.STRING, 0)),
 		"Interval":            reflect.ValueOf(stats.Interval),
@@ -51,10 +53,12 @@ func init() {
 		"Wilson":              reflect.ValueOf(stats.Wilson),
 
 		// type definitions
+		"Comparison":       reflect.ValueOf((*stats.Comparison)(nil)),
 		"Crossing":         reflect.ValueOf((*stats.Crossing)(nil)),
 		"Estimate":         reflect.ValueOf((*stats.Estimate)(nil)),
 		"Loss":             reflect.ValueOf((*stats.Loss)(nil)),
 		"Method":           reflect.ValueOf((*stats.Method)(nil)),
+		"PairedTally":      reflect.ValueOf((*stats.PairedTally)(nil)),
 		"WeightedEstimate": reflect.ValueOf((*stats.WeightedEstimate)(nil)),
 	}
 }

@@ -114,6 +114,9 @@ func (x *experiment) execute() (*result.Run, error) {
 	if len(rules) == 0 {
 		rules = []stop.Rule{stop.Errors(100), stop.Bits(1e9)}
 	}
+	if err := x.checkPaired(rules); err != nil {
+		return nil, err
+	}
 	sum := sha256.Sum256(o.Source)
 	var err error
 	x.long, err = longrun.Open(o.Long, longrun.Job{Name: x.Name, Script: o.Script, SHA256: hex.EncodeToString(sum[:]),
@@ -135,7 +138,15 @@ func (x *experiment) execute() (*result.Run, error) {
 		run.Theory = append(run.Theory, c.Name)
 	}
 	points := x.grid()
-	for _, pt := range points {
+	loop := points
+	if x.pairedAxis() >= 0 {
+		// A paired comparison runs a point's variants together (variants.go).
+		if err := x.runGroups(ctx, run, points, rules, seed, workers); err != nil {
+			return nil, err
+		}
+		loop = nil
+	}
+	for _, pt := range loop {
 		if skip, why := x.skip(run, pt); skip {
 			run.Points = append(run.Points, x.skipped(run, pt, why))
 			x.opts.logf("%s  skipped: %s\n", pt.text(), why)
