@@ -303,12 +303,13 @@ func (lay layout) pairs(p *stop.Progress) []stats.PairedTally {
 		b := p.Counts[lay.start[v]]
 		k := lay.pair[v-1]
 		oa, ob, dis := p.Counts[k], p.Counts[k+1], p.Counts[k+2]
-		crossOnly := (dis.Squares - oa.Squares - ob.Squares) / 2
-		diffSq := oa.Squares + ob.Squares - 2*crossOnly // Σ (eB − eA)²
+		crossOnly := float64(dis.Squares-oa.Squares-ob.Squares) / 2
+		diffSq := float64(oa.Squares+ob.Squares) - 2*crossOnly // Σ (eB − eA)²
+		sa, sb := float64(ref.Squares), float64(b.Squares)
 		out = append(out, stats.PairedTally{
 			Frames: p.Frames, TrialsA: ref.Trials, TrialsB: b.Trials, ErrorsA: ref.Errors, ErrorsB: b.Errors,
-			OnlyA: oa.Errors, OnlyB: ob.Errors, SquaresA: ref.Squares, SquaresB: b.Squares,
-			Cross: (ref.Squares + b.Squares - diffSq) / 2,
+			OnlyA: oa.Errors, OnlyB: ob.Errors, SquaresA: sa, SquaresB: sb,
+			Cross: (sa + sb - diffSq) / 2,
 		})
 	}
 	return out

@@ -1,0 +1,69 @@
+package output
+
+import (
+	"bytes"
+	"fmt"
+	"strings"
+
+	"tally/runtime/result"
+)
+
+// pairedColumns are table.csv's columns of a paired comparison: on a variant's row, its
+// difference from the reference (BER − reference BER) and their ratio, each with its interval,
+// and the p-value of no difference; empty on the reference's rows.
+var pairedColumns = []string{"diff", "diff_low", "diff_high", "ratio", "ratio_low", "ratio_high", "diff_p"}
+
+func pairedCells(p result.Point) []string {
+	c := p.Paired
+	if c == nil {
+		return make([]string, len(pairedColumns))
+	}
+	return []string{Num(c.Diff), Num(c.DiffLow), Num(c.DiffHigh), Num(c.Ratio), Num(c.RatioLow), Num(c.RatioHigh), Num(c.P)}
+}
+
+// pairedSummary is README.md's section of a paired comparison: a line per point and variant
+// with the verdict in words, both BERs, the difference and the ratio with their intervals and
+// the discordant bits, then the method.
+func pairedSummary(b *bytes.Buffer, r *result.Run) {
+	if !r.Paired() {
+		return
+	}
+	b.WriteString("## Paired comparison\n\n")
+	var methods []string
+	for _, p := range r.Points {
+		c := p.Paired
+		if c == nil {
+			continue
+		}
+		var at []string
+		for i, n := range r.Params {
+			if r.Value(p, i) != c.Variant {
+				at = append(at, n+" "+r.Value(p, i))
+			}
+		}
+		bits := int64(0)
+		if len(p.Taps) > 0 {
+			bits = p.Taps[0].Trials
+		}
+		fmt.Fprintf(b, "- %s: **%s**. BER %s against %s; difference %s [%s, %s], ratio %s [%s, %s]; of the same %d bits, %d were wrong in %s only and %d in %s only.\n",
+			md(strings.Join(at, ", ")), md(c.Verdict), Num(c.Rate), Num(c.RateRef),
+			Num(c.Diff), Num(c.DiffLow), Num(c.DiffHigh), Num(c.Ratio), Num(c.RatioLow), Num(c.RatioHigh),
+			bits, c.OnlyRef, md(c.Against), c.OnlyVariant, md(c.Variant))
+		if c.Method != "" && !contains(methods, c.Method) {
+			methods = append(methods, c.Method)
+		}
+	}
+	fmt.Fprintf(b, "\nEvery variant ran on the same frames as the reference: the same source bits, noise and fades, "+
+		"drawn by role, so the comparison sees the designs' difference and not the luck of the draw. "+
+		"Intervals (%g %%) and p-values are paired (%s), valid under the stop rules, judged after every frame, and with errors clustered within frames.\n\n",
+		100*r.Confidence, strings.Join(methods, ", "))
+}
+
+func contains(s []string, v string) bool {
+	for _, x := range s {
+		if x == v {
+			return true
+		}
+	}
+	return false
+}
