@@ -3,6 +3,8 @@ package output
 import (
 	"bytes"
 	"fmt"
+	"math"
+	"strconv"
 	"strings"
 
 	"tally/runtime/result"
@@ -45,18 +47,32 @@ func pairedSummary(b *bytes.Buffer, r *result.Run) {
 		if len(p.Taps) > 0 {
 			bits = p.Taps[0].Trials
 		}
-		fmt.Fprintf(b, "- %s: **%s**. BER %s against %s; difference %s [%s, %s], ratio %s [%s, %s]; of the same %d bits, %d were wrong in %s only and %d in %s only.\n",
-			md(strings.Join(at, ", ")), md(c.Verdict), Num(c.Rate), Num(c.RateRef),
-			Num(c.Diff), Num(c.DiffLow), Num(c.DiffHigh), Num(c.Ratio), Num(c.RatioLow), Num(c.RatioHigh),
-			bits, c.OnlyRef, md(c.Against), c.OnlyVariant, md(c.Variant))
+		fmt.Fprintf(b, "- %s, %s against %s: **%s**. BER %s against %s; difference %s [%s, %s], ratio %s [%s, %s]; of the same %d bits, %d were wrong in %s only and %d in %s only.\n",
+			md(strings.Join(at, ", ")), md(c.Variant), md(c.Against), md(c.Verdict), g3(c.Rate), g3(c.RateRef),
+			g3(c.Diff), g3(c.DiffLow), g3(c.DiffHigh), g3(c.Ratio), g3(c.RatioLow), g3(c.RatioHigh),
+			bits, c.OnlyVariant, md(c.Variant), c.OnlyRef, md(c.Against))
 		if c.Method != "" && !contains(methods, c.Method) {
 			methods = append(methods, c.Method)
 		}
 	}
 	fmt.Fprintf(b, "\nEvery variant ran on the same frames as the reference: the same source bits, noise and fades, "+
 		"drawn by role, so the comparison sees the designs' difference and not the luck of the draw. "+
-		"Intervals (%g %%) and p-values are paired (%s), valid under the stop rules, judged after every frame, and with errors clustered within frames.\n\n",
+		"Intervals (%g %%) and p-values are paired, frame by frame (%s): they hold whichever rule ended the point, a rule that watches the comparison included, and however errors cluster within frames.\n\n",
 		100*r.Confidence, strings.Join(methods, ", "))
+}
+
+// g3 is a figure of the summary's prose: three significant digits, "∞" for an open end, "—"
+// for none.
+func g3(v float64) string {
+	switch {
+	case math.IsNaN(v):
+		return "—"
+	case math.IsInf(v, 1):
+		return "∞"
+	case math.IsInf(v, -1):
+		return "−∞"
+	}
+	return strconv.FormatFloat(v, 'g', 3, 64)
 }
 
 func contains(s []string, v string) bool {
