@@ -86,8 +86,6 @@ func (x *experiment) checkPaired(rules []stop.Rule) error {
 		return fmt.Errorf("sim.Variants: a paired comparison counts errors; it cannot run with x.Estimate")
 	case len(x.SweepRules) > 0:
 		return fmt.Errorf("sim.Variants: sweep rules (x.StopSweep) do not yet run with a paired comparison")
-	case x.opts.Long != nil && x.opts.Long.Shard != nil:
-		return fmt.Errorf("-shard: the experiment is a paired comparison (x.Variants), which does not yet run in shards; run it on one machine (-resume continues it)")
 	}
 	return nil
 }
