@@ -21,21 +21,22 @@ func pairedPanel(r *result.Run, cs []curve, legend *Legend) *plot.Plot {
 	}
 	ref := ""
 	p := panel(r, "BER ratio to the reference")
-	hi := 1.2
+	lo, hi := 1.0, 1.0
 	for ci, c := range cs {
 		s := &series{}
 		has := false
 		for _, pt := range c.points {
 			s.x = append(s.x, pt.Values[0])
-			y, lo, up := math.NaN(), math.NaN(), math.NaN()
+			y, low, up := math.NaN(), math.NaN(), math.NaN()
 			if cmp := pt.Paired; cmp != nil && cmp.Ratio > 0 && !math.IsInf(cmp.Ratio, 0) {
 				has, ref = true, cmp.Against
-				y, lo, up = cmp.Ratio, math.Max(cmp.RatioLow, 1e-12), cmp.RatioHigh
+				y, low, up = cmp.Ratio, math.Max(cmp.RatioLow, 1e-12), cmp.RatioHigh
 				if up > hi && !math.IsInf(up, 0) {
 					hi = up
 				}
+				lo = math.Min(lo, cmp.RatioLow)
 			}
-			s.y, s.low, s.high = append(s.y, y), append(s.low, lo), append(s.high, up)
+			s.y, s.low, s.high = append(s.y, y), append(s.low, low), append(s.high, up)
 			s.bound = append(s.bound, math.NaN())
 		}
 		if !has {
@@ -46,7 +47,8 @@ func pairedPanel(r *result.Run, cs []curve, legend *Legend) *plot.Plot {
 		p.Add(s, &shownMarks{points: c.points, cl: cl})
 	}
 	p.Add(&level{y: 1})
-	p.Y.Min, p.Y.Max = 0, hi*1.05
+	pad := 0.08 * (hi - lo)
+	p.Y.Min, p.Y.Max = math.Max(0, lo-pad), hi+pad
 	p.Y.Label.Text = "BER ratio to " + ref
 	legend.Add("difference from "+ref+" shown", &series{glyph: draw.GlyphStyle{Color: theoryCl, Radius: vg.Points(3), Shape: draw.CircleGlyph{}}})
 	legend.Add("no difference shown", &series{glyph: draw.GlyphStyle{Color: theoryCl, Radius: vg.Points(3), Shape: ring{}}})

@@ -32,6 +32,7 @@ func pairedSummary(b *bytes.Buffer, r *result.Run) {
 	}
 	b.WriteString("## Paired comparison\n\n")
 	var methods []string
+	n := 0
 	for _, p := range r.Points {
 		c := p.Paired
 		if c == nil {
@@ -47,10 +48,11 @@ func pairedSummary(b *bytes.Buffer, r *result.Run) {
 		if len(p.Taps) > 0 {
 			bits = p.Taps[0].Trials
 		}
-		fmt.Fprintf(b, "- %s, %s against %s: **%s**. BER %s against %s; difference %s [%s, %s], ratio %s [%s, %s]; of the same %d bits, %d were wrong in %s only and %d in %s only.\n",
+		fmt.Fprintf(b, "- %s, %s against %s: **%s**. BER %s against %s; difference %s [%s, %s], ratio %s [%s, %s]; of the same %d bits, %d were wrong in %s only and %d in %s only%s.\n",
 			md(strings.Join(at, ", ")), md(c.Variant), md(c.Against), md(c.Verdict), g3(c.Rate), g3(c.RateRef),
 			g3(c.Diff), g3(c.DiffLow), g3(c.DiffHigh), g3(c.Ratio), g3(c.RatioLow), g3(c.RatioHigh),
-			bits, c.OnlyVariant, md(c.Variant), c.OnlyRef, md(c.Against))
+			bits, c.OnlyVariant, md(c.Variant), c.OnlyRef, md(c.Against), narrower(c.Narrower))
+		n++
 		if c.Method != "" && !contains(methods, c.Method) {
 			methods = append(methods, c.Method)
 		}
@@ -59,6 +61,19 @@ func pairedSummary(b *bytes.Buffer, r *result.Run) {
 		"drawn by role, so the comparison sees the designs' difference and not the luck of the draw. "+
 		"Intervals (%g %%) and p-values are paired, frame by frame (%s): they hold whichever rule ended the point, a rule that watches the comparison included, and however errors cluster within frames.\n\n",
 		100*r.Confidence, strings.Join(methods, ", "))
+	if n > 1 {
+		fmt.Fprintf(b, "Each comparison holds at %g %% on its own: were there no differences at all, about %.2g of these %d comparisons would show one by chance. "+
+			"To claim them all at once, read as shown only those with p below %.2g (Bonferroni).\n\n",
+			100*r.Confidence, float64(n)*(1-r.Confidence), n, (1-r.Confidence)/float64(n))
+	}
+}
+
+// narrower says what pairing bought, for a comparison's line ("" when not known).
+func narrower(k float64) string {
+	if !(k > 1) || math.IsInf(k, 0) {
+		return ""
+	}
+	return fmt.Sprintf("; the interval on the difference is %.2g times narrower than an unpaired comparison of these counts would give", k)
 }
 
 // g3 is a figure of the summary's prose: three significant digits, "∞" for an open end, "—"

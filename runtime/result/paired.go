@@ -22,6 +22,10 @@ type Comparison struct {
 	Method      string  `json:"method"`
 	OnlyRef     int64   `json:"only_ref"`
 	OnlyVariant int64   `json:"only_variant"`
+	// Narrower is how many times narrower the paired interval on the difference is than an
+	// unpaired comparison of the same counts would give (stats.CompareUnpaired): what running
+	// the variants on the same frames bought. NaN when either width is not defined.
+	Narrower float64 `json:"narrower_than_unpaired"`
 }
 
 // Paired reports whether any point of the run carries a comparison.

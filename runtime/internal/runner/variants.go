@@ -229,7 +229,11 @@ func (x *experiment) runGroup(ctx context.Context, g group, rules []stop.Rule, s
 				Diff: c.Diff, DiffLow: c.DiffLow, DiffHigh: c.DiffHigh,
 				Ratio: c.Ratio, RatioLow: c.RatioLow, RatioHigh: c.RatioHigh,
 				P: c.P, Shown: c.Shown, Verdict: c.VerdictFor(names[0], names[v]), Method: c.Method,
-				OnlyRef: pairs[v-1].OnlyA, OnlyVariant: pairs[v-1].OnlyB}
+				OnlyRef: pairs[v-1].OnlyA, OnlyVariant: pairs[v-1].OnlyB, Narrower: math.NaN()}
+			u := stats.CompareUnpaired(pairs[v-1], x.Confidence)
+			if w, wu := c.DiffHigh-c.DiffLow, u.DiffHigh-u.DiffLow; w > 0 && wu > 0 && !math.IsInf(wu, 0) {
+				rp.Paired.Narrower = wu / w
+			}
 		}
 		rps[v] = rp
 	}
