@@ -4,7 +4,8 @@ import "tally/blocks/rng"
 
 // Block is one box of the block diagram. Process transforms the frame in place, drawing any
 // randomness from r, the block's own stream for this frame (keyed by seed, point, frame and the
-// block's position). It must treat every frame as independent (see the package doc).
+// block's position; in a paired link, its role: see Roled). It must treat every frame as
+// independent (see the package doc).
 type Block interface {
 	Process(f *Frame, r *rng.Stream) error
 }
