@@ -25,7 +25,8 @@ import (
 // reference: the difference of the BERs and their ratio with intervals, the p-value and the
 // verdict (columns diff, diff_low, diff_high, ratio, ratio_low, ratio_high, diff_p). A point
 // ends when its rules are met for every variant; stop.Shown and stop.Within watch the
-// comparison itself.
+// comparison itself. The variants' frames are keyed by the point without the variants axis:
+// a block sees that index as f.Point, the same in every variant.
 func (x *Experiment) Variants(name string, labels ...string) *Experiment {
 	x.checkName(name)
 	if len(labels) < 2 {
