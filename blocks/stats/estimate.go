@@ -16,6 +16,11 @@
 // the rate at most x shown?". BurstTest judges whether errors come in bursts. AtTarget reads
 // the swept value where a curve reaches a BER, with an interval, and Penalty its distance
 // from a theory curve.
+//
+// ComparePaired compares two variants of a link run on the same frames (a PairedTally): the
+// difference and ratio of their rates with intervals valid under any stop rule, from the
+// frame-level paired differences; CompareUnpaired is the same counts taken as independent
+// runs, to show what pairing bought. FormatP prints a p-value.
 package stats
 
 import (

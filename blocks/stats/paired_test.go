@@ -142,6 +142,9 @@ func TestPairedAgainstMixture(t *testing.T) {
 	if got := (u.DiffHigh - u.Diff) / k; math.Abs(got-su) > 1e-9*su {
 		t.Errorf("unpaired half width / k = %g, want √(s_A²+s_B²) = %g", got, su)
 	}
+	if w := math.Max(1-c.RatioLow, c.RatioHigh-1); !c.Within(w+1e-9) || c.Within(w-1e-9) {
+		t.Errorf("Within(%g) and the ratio interval [%g, %g] disagree", w, c.RatioLow, c.RatioHigh)
+	}
 	if !strings.HasPrefix(c.Method, PairedMethod) || !strings.HasPrefix(u.Method, UnpairedMethod) {
 		t.Errorf("methods %q, %q", c.Method, u.Method)
 	}
@@ -167,13 +170,14 @@ func TestPairedMerge(t *testing.T) {
 }
 
 // No errors in either variant: no difference shown, the ratio unknown, and the difference
-// bounded by the exact zero-count limit 1 − α^(1/n) at the frame level (Clopper and Pearson,
+// bounded by the exact zero-count limit 1 − α^(1/(n−1)) for a frame that differs from the
+// first, at the frame level (Clopper and Pearson,
 // Biometrika 26, 1934, one-sided, k = 0: UpperLimit here, computed from gonum's beta law).
 func TestPairedNoErrors(t *testing.T) {
 	const n = 3000
 	tally := PairedTally{Frames: n, TrialsA: 1000 * n, TrialsB: 1000 * n}
 	c := ComparePaired(tally, 0.95)
-	u, err := UpperLimit(0, n, 0.95)
+	u, err := UpperLimit(0, n-1, 0.95) // the frames after the first
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -201,7 +205,7 @@ func TestPairedIdenticalFrames(t *testing.T) {
 		tally.Add(ea, ea, 100, 100, 0, 0)
 	}
 	c := ComparePaired(tally, 0.95)
-	u, _ := UpperLimit(0, 400, 0.95)
+	u, _ := UpperLimit(0, 399, 0.95)
 	if !c.Same || c.Diff != 0 || c.P != 1 || c.Shown || c.Ratio != 1 {
 		t.Errorf("identical frames: %+v", c)
 	}
@@ -225,12 +229,27 @@ func TestPairedEdges(t *testing.T) {
 	var one PairedTally
 	one.Add(3, 5, 100, 100, 0, 2)
 	c := ComparePaired(one, 0.95)
-	// One frame is "every frame identical": the exact bound with n = 1, q = 1 − α.
-	if c.Shown || math.Abs(c.DiffLow-(0.02-0.95*1.02)) > 1e-12 || math.Abs(c.DiffHigh-(0.02+0.95*0.98)) > 1e-12 {
+	// One frame shows nothing of the spread: the whole range, no evidence.
+	if c.Shown || c.DiffLow != -1 || c.DiffHigh != 1 || c.P != 1 || math.Abs(c.Diff-0.02) > 1e-15 ||
+		c.Verdict != "not judged yet (1 of 30 frames)" {
 		t.Errorf("one frame: %+v", c)
 	}
+	// Two frames alike, 2 errors more in B: the exact bound with one frame after the first,
+	// q = 1 − α, and P = 1/(1 + 0.02).
+	one.Add(3, 5, 100, 100, 0, 2)
+	c = ComparePaired(one, 0.95)
+	if c.Shown || math.Abs(c.DiffLow-(0.02-0.95*1.02)) > 1e-12 || math.Abs(c.DiffHigh-(0.02+0.95*0.98)) > 1e-12 {
+		t.Errorf("two frames alike: %+v", c)
+	}
 	if want := 1 / 1.02; math.Abs(c.P-want) > 1e-12 {
-		t.Errorf("one frame P = %g, want (1+|c|)^−1 = %g", c.P, want)
+		t.Errorf("two frames alike: P = %g, want (1+|c|)^−1 = %g", c.P, want)
+	}
+	// Frames that differ, fewer than MinPairedFrames: not judged.
+	for range 10 {
+		one.Add(1, 0, 100, 100, 1, 0)
+	}
+	if c := ComparePaired(one, 0.95); c.Shown || c.P != 1 || c.DiffLow != -1 || c.DiffHigh != 1 || c.Within(0.5) {
+		t.Errorf("12 frames that differ: %+v", c)
 	}
 	z := ComparePaired(PairedTally{}, 0.95)
 	if z.Shown || z.P != 1 || !math.IsNaN(z.Diff) || z.DiffLow != -1 || z.DiffHigh != 1 || z.Verdict != "no frames yet" {
@@ -244,6 +263,9 @@ func TestPairedEdges(t *testing.T) {
 		{PairedTally{Frames: 2, TrialsA: 10, TrialsB: 10, ErrorsA: 11}, 0.95},
 		{PairedTally{Frames: 2, TrialsA: 1, TrialsB: 10}, 0.95},
 		{PairedTally{Frames: -1}, 0.95},
+		// Σe² below (Σe)²/n, and Σe_A·e_B beyond Cauchy–Schwarz: no frames give these.
+		{PairedTally{Frames: 2, TrialsA: 10, TrialsB: 10, ErrorsA: 4, SquaresA: 4}, 0.95},
+		{PairedTally{Frames: 2, TrialsA: 10, TrialsB: 10, ErrorsA: 2, ErrorsB: 2, SquaresA: 4, SquaresB: 2, Cross: 5}, 0.95},
 	} {
 		c := ComparePaired(bad.t, bad.conf)
 		if !math.IsNaN(c.P) || !math.IsNaN(c.Diff) || c.Shown || c.Verdict != "not judged" {
@@ -269,6 +291,44 @@ func TestPairedOnlyB(t *testing.T) {
 	if got := c.VerdictFor("old", "new"); !strings.HasPrefix(got, "new makes more errors than old (p ") {
 		t.Errorf("VerdictFor: %q", got)
 	}
+}
+
+// A shows few errors (not shown above 0), B many: Fieller's set is two rays, and the ratio's
+// interval is the ray [r2, +Inf) with r2 > 0 where (b − r·a)² = k²·v(r) (Fieller, J. R. Stat.
+// Soc. B 16, 1954).
+func TestPairedRatioRays(t *testing.T) {
+	var tally PairedTally
+	var xa, xb []float64
+	for i := range 2000 {
+		var ea int64
+		if i%700 == 3 {
+			ea = 1
+		}
+		eb := int64(i % 2)
+		tally.Add(ea, eb, 100, 100, ea, eb)
+		xa = append(xa, float64(ea)/100)
+		xb = append(xb, float64(eb)/100)
+	}
+	c := ComparePaired(tally, 0.95)
+	if !math.IsInf(c.RatioHigh, 1) || !(c.RatioLow > 0) || !(c.RatioLow < c.Ratio) {
+		t.Fatalf("ratio %g [%g, %g], want a ray [r2 > 0, +Inf)", c.Ratio, c.RatioLow, c.RatioHigh)
+	}
+	s := math.Sqrt(stat.Variance(xs(xa, xb), nil))
+	k := (c.DiffHigh - c.Diff) / s
+	a, b, r := stat.Mean(xa, nil), stat.Mean(xb, nil), c.RatioLow
+	v := stat.Variance(xb, nil) - 2*r*stat.Covariance(xa, xb, nil) + r*r*stat.Variance(xa, nil)
+	if lhs, rhs := (b-r*a)*(b-r*a), k*k*v; math.Abs(lhs-rhs) > 1e-9*rhs {
+		t.Errorf("at r2 = %g: (b − r·a)² = %g, k²·v(r) = %g", r, lhs, rhs)
+	}
+}
+
+// xs is the per-frame differences b − a.
+func xs(a, b []float64) []float64 {
+	d := make([]float64, len(a))
+	for i := range a {
+		d[i] = b[i] - a[i]
+	}
+	return d
 }
 
 // P-values print as a person reads them (common practice, no source).
