@@ -2,7 +2,6 @@ package stop
 
 import (
 	"fmt"
-	"math"
 
 	"tally/blocks/stats"
 )
@@ -40,16 +39,22 @@ func (r *DiffShown) Name() string { return "shown" }
 // Err reports a confidence outside (0, 1).
 func (r *DiffShown) Err() error { return checkConfidence("stop.Shown", r.Confidence) }
 
-// RatioWithin ends a paired point once the ratio of every variant's BER to the reference's is
-// known to within ±Fraction: its interval (stats.ComparePaired, at Confidence) lies within
-// Fraction of the ratio on both sides. Within(0.1) stops when "B makes 0.62 times A's errors"
-// is known to ±10 %, whether or not the two differ.
+// RatioWithin ends a paired point (sim's Variants) once every variant is shown to make
+// within ±Fraction of the reference's errors: the interval of the ratio of their BERs
+// (stats.ComparePaired at Confidence, anytime-valid) lies inside [1 − Fraction, 1 + Fraction].
+// Within(0.1) stops when "the two designs are within 10 % of each other" is shown: no
+// difference that matters, rather than no difference shown.
+//
+// Given with Shown to the same experiment (x.Stop(stop.Shown(), stop.Within(0.1), …)), the
+// two are judged per comparison: the point ends once every comparison is settled, shown
+// different or shown within ±Fraction.
 type RatioWithin struct {
 	Fraction   float64
 	Confidence float64 // DefaultConfidence by default
 }
 
-// Within ends a paired point once every ratio's interval lies within ±fraction of it.
+// Within ends a paired point once every variant's BER is shown within ±fraction of the
+// reference's.
 func Within(fraction float64) *RatioWithin {
 	return &RatioWithin{Fraction: fraction, Confidence: DefaultConfidence}
 }
@@ -57,15 +62,14 @@ func Within(fraction float64) *RatioWithin {
 // Level sets the confidence of the ratio's interval.
 func (r *RatioWithin) Level(confidence float64) *RatioWithin { r.Confidence = confidence; return r }
 
-// Met is true once every ratio's interval is within Fraction of the ratio (false on a point
-// with no comparison, or with a ratio not yet defined).
+// Met is true once every ratio's interval lies inside [1 − Fraction, 1 + Fraction] (false on a
+// point with no comparison).
 func (r *RatioWithin) Met(p *Progress) bool {
 	if len(p.Pairs) == 0 || r.Err() != nil {
 		return false
 	}
 	for _, t := range p.Pairs {
-		c := stats.ComparePaired(t, r.Confidence)
-		if !(c.Ratio > 0) || math.IsInf(c.Ratio, 0) || !(c.RatioLow >= c.Ratio*(1-r.Fraction)) || !(c.RatioHigh <= c.Ratio*(1+r.Fraction)) {
+		if !stats.ComparePaired(t, r.Confidence).Within(r.Fraction) {
 			return false
 		}
 	}

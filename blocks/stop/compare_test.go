@@ -48,7 +48,8 @@ func TestComparisonRules(t *testing.T) {
 		{"shown, worse", []stats.PairedTally{worse}, stop.Shown()},
 		{"shown, same", []stats.PairedTally{same}, stop.Shown()},
 		{"shown, both", []stats.PairedTally{worse, same}, stop.Shown()},
-		{"within 10 %", []stats.PairedTally{worse}, stop.Within(0.1)},
+		{"within 10 %, worse", []stats.PairedTally{worse}, stop.Within(0.1)},
+		{"within 10 %, same", []stats.PairedTally{same}, stop.Within(0.1)},
 		{"within 50 %", []stats.PairedTally{worse}, stop.Within(0.5)},
 		{"within 50 %, both", []stats.PairedTally{worse, same}, stop.Within(0.5)},
 	} {
@@ -59,7 +60,7 @@ func TestComparisonRules(t *testing.T) {
 			case *stop.DiffShown:
 				want = want && cmp.Shown
 			case *stop.RatioWithin:
-				want = want && cmp.RatioLow >= cmp.Ratio*(1-r.Fraction) && cmp.RatioHigh <= cmp.Ratio*(1+r.Fraction)
+				want = want && cmp.RatioLow >= 1-r.Fraction && cmp.RatioHigh <= 1+r.Fraction
 			}
 		}
 		got := c.rule.Met(&stop.Progress{Frames: 400, Pairs: c.pairs})
@@ -76,6 +77,12 @@ func TestComparisonRules(t *testing.T) {
 	if stop.Shown().Met(&stop.Progress{Pairs: []stats.PairedTally{same}}) {
 		t.Error("1 % more errors over 400 000 paired bits is shown")
 	}
+	if stop.Within(0.1).Met(&stop.Progress{Pairs: []stats.PairedTally{worse}}) {
+		t.Error("30 % more errors shown within ±10 %")
+	}
+	if !stop.Within(0.1).Met(&stop.Progress{Pairs: []stats.PairedTally{same}}) {
+		t.Error("1 % more errors over 400 000 paired bits not shown within ±10 %")
+	}
 	if stop.Within(0).Err() == nil || stop.Within(1).Err() == nil || stop.Shown().Level(1).Err() == nil {
 		t.Error("a fraction or confidence out of range was accepted")
 	}
@@ -84,6 +91,6 @@ func TestComparisonRules(t *testing.T) {
 func ExampleShown() {
 	// A paired point: the variant makes 30 % more errors on the same frames as the reference.
 	p := &stop.Progress{Frames: 400, Pairs: []stats.PairedTally{paired(400, 5, 1.5, 0)}}
-	fmt.Println(stop.Shown().Name(), stop.Shown().Met(p), stop.Within(0.01).Met(p))
+	fmt.Println(stop.Shown().Name(), stop.Shown().Met(p), stop.Within(0.1).Met(p))
 	// Output: shown true false
 }

@@ -119,3 +119,22 @@ func ExampleExperiment_Variants() {
 	fmt.Println(r.Points[1].Stop, c.Shown, c.Diff < 0)
 	// Output: shown true true
 }
+
+// Shown and Within given together settle each comparison by either: the better variant is
+// shown better, the identical one shown within ±20 %, and the point ends once both are, by
+// "shown/within".
+func TestVariantsSettledPerComparison(t *testing.T) {
+	x := testExperiment("settled", &runner.Options{Quiet: true, Workers: 2})
+	x.Sweep("ebn0_db", 3)
+	x.Variants("rx", "ref", "hot", "same")
+	x.Link(twoReceivers)
+	x.Stop(stop.Shown(), stop.Within(0.2), stop.Bits(2e7))
+	r, err := x.execute()
+	if err != nil {
+		t.Fatal(err)
+	}
+	hot, same := r.Points[1].Paired, r.Points[2].Paired
+	if r.Points[0].Stop != "shown/within" || !hot.Shown || same.Shown || !(same.RatioLow >= 0.8 && same.RatioHigh <= 1.2) {
+		t.Fatalf("stop %q; hot %+v; same %+v", r.Points[0].Stop, hot, same)
+	}
+}

@@ -186,10 +186,7 @@ func (x *experiment) runGroup(ctx context.Context, g group, rules []stop.Rule, s
 		where = func() string { return scriptPos(callers(5)) }
 	}
 	label := g.label + " " + x.Params[a].Name + "=" + strings.Join(names, "|")
-	wrapped := make([]stop.Rule, len(rules))
-	for i, r := range rules {
-		wrapped[i] = &eachVariant{inner: r, lay: lay}
-	}
+	wrapped := pairedRules(rules, lay)
 	spec := engine.Spec{Point: g.index, Label: strings.TrimSpace(label), Build: build, Rules: wrapped, Seed: seed, Workers: workers, Where: where}
 	ref := g.rows[0]
 	lp := longrun.Point{Index: ref.Index, Values: ref.Values, Label: spec.Label}
@@ -315,6 +312,92 @@ func (lay layout) pairs(p *stop.Progress) []stats.PairedTally {
 		})
 	}
 	return out
+}
+
+// pairedRules are a paired point's rules: each judged on every variant (eachVariant), except
+// that two or more rules on the comparison (stop.Shown, stop.Within) are judged together,
+// per comparison (settled), in the place of the first of them.
+func pairedRules(rules []stop.Rule, lay layout) []stop.Rule {
+	var cmp []stop.Rule
+	for _, r := range rules {
+		switch r.(type) {
+		case *stop.DiffShown, *stop.RatioWithin:
+			cmp = append(cmp, r)
+		}
+	}
+	var out []stop.Rule
+	placed := false
+	for _, r := range rules {
+		switch r.(type) {
+		case *stop.DiffShown, *stop.RatioWithin:
+			if len(cmp) > 1 {
+				if !placed {
+					out = append(out, &settled{rules: cmp, lay: lay})
+					placed = true
+				}
+				continue
+			}
+		}
+		out = append(out, &eachVariant{inner: r, lay: lay})
+	}
+	return out
+}
+
+// settled is met once every comparison of a paired point meets one of its rules: shown
+// different, or shown within ±x. Its name is the rules that settled them ("shown", "within",
+// or "shown/within" when some comparisons were settled by each).
+type settled struct {
+	rules []stop.Rule
+	lay   layout
+	name  string
+}
+
+func (r *settled) Met(p *stop.Progress) bool {
+	pairs := r.lay.pairs(p)
+	used := make([]bool, len(r.rules))
+	for k := range pairs {
+		one := &stop.Progress{Frames: p.Frames, Elapsed: p.Elapsed, Pairs: pairs[k : k+1]}
+		met := false
+		for i, q := range r.rules {
+			if q.Met(one) {
+				used[i], met = true, true
+				break
+			}
+		}
+		if !met {
+			return false
+		}
+	}
+	var names []string
+	for i, q := range r.rules {
+		if used[i] {
+			names = append(names, q.Name())
+		}
+	}
+	r.name = strings.Join(names, "/")
+	return len(pairs) > 0
+}
+
+func (r *settled) Name() string {
+	if r.name == "" {
+		var names []string
+		for _, q := range r.rules {
+			names = append(names, q.Name())
+		}
+		return strings.Join(names, "/")
+	}
+	return r.name
+}
+
+func (r *settled) Err() error {
+	for _, q := range r.rules {
+		if c, ok := q.(link.Checked); ok {
+			if err := c.Err(); err != nil {
+				return err
+			}
+		}
+	}
+	return nil
 }
 
 // eachVariant is a stop rule judged on a paired point: met when it is met on every variant's
