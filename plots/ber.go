@@ -211,12 +211,19 @@ func BER(r *result.Run) (*Figure, error) {
 		setY(right, fys, theoryFY)
 		panels = append(panels, right)
 	}
+	paired := pairedPanel(r, cs, legend)
+	if paired != nil {
+		panels = append(panels, paired)
+	}
 	for _, p := range panels {
 		setX(r, p)
 	}
 	w := 7.2 * vg.Inch
 	if frames {
 		w = 11 * vg.Inch
+	}
+	if paired != nil {
+		w += 3.8 * vg.Inch
 	}
 	return &Figure{
 		Title:   r.Name,

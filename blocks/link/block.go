@@ -4,7 +4,8 @@ import "tally/blocks/rng"
 
 // Block is one box of the block diagram. Process transforms the frame in place, drawing any
 // randomness from r, the block's own stream for this frame (keyed by seed, point, frame and the
-// block's position). It must treat every frame as independent (see the package doc).
+// block's position; in a paired link, its role: see Roled). It must treat every frame as
+// independent (see the package doc).
 type Block interface {
 	Process(f *Frame, r *rng.Stream) error
 }
@@ -20,6 +21,9 @@ type Checked interface{ Err() error }
 type FuncBlock struct {
 	Label string
 	Fn    func(f *Frame, r *rng.Stream)
+	// Shares is the role of the random numbers the block draws in a paired comparison (see
+	// Roled); empty: its Label.
+	Shares string
 }
 
 // Func makes a block of a function; name labels it in messages.
@@ -30,6 +34,20 @@ func Func(name string, fn func(f *Frame, r *rng.Stream)) *FuncBlock {
 
 // Process calls the function.
 func (b *FuncBlock) Process(f *Frame, r *rng.Stream) error { b.Fn(f, r); return nil }
+
+// Draws gives the block a role in a paired comparison (see Roled and sim's Variants): a
+// block of the script's own that adds noise declares Draws("noise"), so a variant that puts it
+// where another variant has channel.AWGN draws from the same stream. Without it the block's role is
+// its name: variants share its stream when they hold a block of that name.
+func (b *FuncBlock) Draws(role string) *FuncBlock { b.Shares = role; return b }
+
+// Role is the role given to Draws, or the block's name.
+func (b *FuncBlock) Role() string {
+	if b.Shares != "" {
+		return b.Shares
+	}
+	return b.Label
+}
 
 // Name is the label given to Func.
 func (b *FuncBlock) Name() string { return b.Label }

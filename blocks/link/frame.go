@@ -73,6 +73,13 @@ type Frame struct {
 	// Flip is, in semi-analytic estimation, the probability that the noise would flip each hard
 	// decision of the noise-free signal, set by the detector: one per bit of Hard.
 	Flip []float64
+
+	// pendingKey, in a paired link (see Paired), keys the stream that MakeComplex draws the
+	// pending imaginary noise from: derived from the stream of the block that left it out, so
+	// the imaginary noise belongs to the noise's role, not to whichever block mixes I and Q
+	// first (an equaliser in one variant, the detector in the other).
+	pendingKey uint64
+	pendingSet bool
 }
 
 // GrowBytes returns s resized to n, reusing its storage when it is large enough.
@@ -106,9 +113,23 @@ func GrowComplex(s []complex128, n int) []complex128 {
 // signal was real, drawing it from r, the calling block's stream.
 func (f *Frame) MakeComplex(r *rng.Stream) {
 	if f.Real && f.PendingImagSigma > 0 {
-		r.AddImagNoise(f.Samples, f.PendingImagSigma)
+		if f.pendingSet {
+			var s rng.Stream
+			s.Reset(rng.Key(f.pendingKey, 0, 0, 0))
+			s.AddImagNoise(f.Samples, f.PendingImagSigma)
+		} else {
+			r.AddImagNoise(f.Samples, f.PendingImagSigma)
+		}
 	}
 	f.Real, f.PendingImagSigma = false, 0
+}
+
+// notePending records, in a paired link, the stream key of the block that has just left
+// imaginary noise pending (see pendingKey).
+func (f *Frame) notePending(key uint64) {
+	if f.Real && f.PendingImagSigma > 0 && !f.pendingSet {
+		f.pendingKey, f.pendingSet = key, true
+	}
 }
 
 // EsN0 is the Es/N0 (linear) that corresponds to an Eb/N0 (linear) in this frame.

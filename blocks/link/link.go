@@ -72,6 +72,14 @@ type Link struct {
 	extra   []Counter
 	coded   bool
 	est     Estimator
+
+	// A paired link (Paired) runs its variants on the same frame; a variant keys its blocks'
+	// streams by role (roles, see paired.go) instead of by position.
+	variants []*Link
+	names    []string
+	frames   []Frame
+	byRole   bool
+	roles    []int
 }
 
 // Chain makes a link of blocks in the order the signal passes them. A block with wrong
@@ -112,6 +120,9 @@ func (l *Link) Blocks() []Block { return l.blocks }
 
 // Taps are the names of what the link counts, in the order Run reports them.
 func (l *Link) Taps() []string {
+	if l.variants != nil {
+		return l.pairedTaps()
+	}
 	t := []string{TapBER, TapFER}
 	if l.coded {
 		t = append(t, TapPre)
@@ -121,6 +132,9 @@ func (l *Link) Taps() []string {
 
 // Check reports the first block whose parameters are wrong, or a link that cannot count.
 func (l *Link) Check() error {
+	if l.variants != nil {
+		return l.checkVariants()
+	}
 	if len(l.blocks) == 0 {
 		return fmt.Errorf("link: no blocks")
 	}
@@ -140,15 +154,28 @@ func (l *Link) Check() error {
 // Run passes frame index of point through the link with streams keyed by seed, and adds what
 // every tap counted to counts (one Tally per name of Taps). f's buffers are reused.
 func (l *Link) Run(f *Frame, seed uint64, point, index int, counts []Tally) error {
+	if l.variants != nil {
+		return l.runPaired(f, seed, point, index, counts)
+	}
 	if len(l.streams) != len(l.blocks) {
 		l.streams = make([]rng.Stream, len(l.blocks))
+	}
+	if l.byRole && len(l.roles) != len(l.blocks) {
+		l.keyRoles()
 	}
 	*f = Frame{Point: point, Index: index, SPS: 1, CodeRate: 1, Es: 1, Estimator: l.est}
 	for k, b := range l.blocks {
 		s := &l.streams[k]
-		s.Reset(rng.Key(seed, point, index, k))
+		if !l.byRole {
+			s.Reset(rng.Key(seed, point, index, k))
+		} else {
+			s.Reset(rng.Key(seed, point, index, l.roles[k]))
+		}
 		if err := b.Process(f, s); err != nil {
 			return fmt.Errorf("%s: %w", NameOf(b), err)
+		}
+		if l.byRole {
+			f.notePending(s.Key())
 		}
 	}
 	out := f.Out

@@ -28,6 +28,7 @@ import (
 	"time"
 
 	"tally/blocks/link"
+	"tally/blocks/stats"
 )
 
 // Progress is what a rule sees: the counts of the committed prefix of one point.
@@ -36,6 +37,9 @@ type Progress struct {
 	Taps    []string      // tap names, as link.Link.Taps
 	Counts  []link.Tally  // per tap, same order as Taps
 	Elapsed time.Duration // wall time spent on the point (only time rules look at it)
+	// Pairs, on a paired comparison (sim's Variants), compare each variant after the first
+	// with the reference, frame by frame (only Shown and Within look at them); nil otherwise.
+	Pairs []stats.PairedTally
 }
 
 // Tap returns the counts of the named tap, and false when the link has no such tap.

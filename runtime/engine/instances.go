@@ -39,6 +39,9 @@ import (
 // runs, since an interleaver keeps the permutation of its frame while a modem's tables are
 // only read.
 func checkInstances(s Spec, first, second *link.Link) error {
+	if first.Variants() != nil {
+		return checkVariants(s, first, second)
+	}
 	if err := sameObjects(first, second); err != nil {
 		return err
 	}
@@ -380,6 +383,9 @@ func (t *gate) Process(f *link.Frame, r *rng.Stream) error {
 }
 
 func (t *gate) Name() string { return link.NameOf(t.b) }
+
+// Role is the gated block's: a variant of a paired link keys its streams by it.
+func (t *gate) Role() string { return link.RoleOf(t.b) }
 
 // digest is a hash of a frame's signal buffers and scalars.
 func digest(f *link.Frame) uint64 {

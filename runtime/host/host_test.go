@@ -246,3 +246,38 @@ func TestScatterWritesConstellation(t *testing.T) {
 		t.Fatalf("a point not in the sweep: %v", err)
 	}
 }
+
+// A paired comparison keeps the engine contract: the table, its comparison columns
+// included, is the same bytes for any number of workers, interpreted and compiled.
+func TestPairedTableSameForWorkersAndCompiled(t *testing.T) {
+	p := scriptIn(t, "paired.go")
+	var want []byte
+	for _, w := range []int{1, 2, 5} {
+		if err := Run(context.Background(), p, quiet(w)); err != nil {
+			t.Fatalf("workers %d: %v", w, err)
+		}
+		got := table(t, p)
+		if want == nil {
+			want = got
+			if !bytes.Contains(got, []byte(",diff,diff_low,diff_high,ratio,ratio_low,ratio_high,diff_p")) {
+				t.Fatalf("no comparison columns:\n%s", got)
+			}
+			continue
+		}
+		if !bytes.Equal(got, want) {
+			t.Fatalf("workers %d: table differs\n%s\nvs\n%s", w, got, want)
+		}
+	}
+	if testing.Short() {
+		return
+	}
+	root, _ := filepath.Abs(filepath.Join("..", ".."))
+	cmd := exec.Command("go", "run", p, "-workers", "3", "-quiet")
+	cmd.Dir = root
+	if out, err := cmd.CombinedOutput(); err != nil {
+		t.Fatalf("go run: %v\n%s", err, out)
+	}
+	if got := table(t, p); !bytes.Equal(got, want) {
+		t.Fatalf("compiled table differs from interpreted\n%s\nvs\n%s", got, want)
+	}
+}

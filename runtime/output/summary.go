@@ -37,6 +37,7 @@ func Summary(r *result.Run, files []string) []byte {
 		}
 		b.WriteString("\n")
 	}
+	pairedSummary(&b, r)
 	if len(r.Notes) > 0 {
 		b.WriteString("## Notes\n\n")
 		for _, n := range r.Notes {

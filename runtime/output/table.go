@@ -65,6 +65,10 @@ func Table(r *result.Run) []byte {
 	if weighted {
 		head = append(head, estimatorColumns...)
 	}
+	paired := r.Paired()
+	if paired {
+		head = append(head, pairedColumns...)
+	}
 	w.Write(head)
 	for _, p := range r.Points {
 		row := make([]string, 0, len(head))
@@ -86,6 +90,9 @@ func Table(r *result.Run) []byte {
 		}
 		if weighted {
 			row = append(row, estimatorCells(p)...)
+		}
+		if paired {
+			row = append(row, pairedCells(p)...)
 		}
 		w.Write(row)
 	}

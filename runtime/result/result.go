@@ -102,6 +102,9 @@ type Point struct {
 	// shown below or above a target), empty when the rule that ended the point claims
 	// nothing (a bit or time cap, an error count).
 	Claim string `json:"claim,omitempty"`
+	// Paired, on a variant's row of a paired comparison (sim's Variants) other than the
+	// reference's, compares it with the reference on the same frames (see Comparison).
+	Paired *Comparison `json:"paired,omitempty"`
 }
 
 // Tap is what one tap counted at a point, with its estimate.

@@ -142,6 +142,9 @@ func (x *experiment) execute() (*result.Run, error) {
 	if len(rules) == 0 {
 		rules = []stop.Rule{stop.Errors(100), stop.Bits(1e9)}
 	}
+	if err := x.checkPaired(rules); err != nil {
+		return nil, err
+	}
 	sum := sha256.Sum256(o.Source)
 	var err error
 	x.long, err = longrun.Open(o.Long, longrun.Job{Name: x.Name, Script: o.Script, SHA256: hex.EncodeToString(sum[:]),
@@ -175,7 +178,18 @@ func (x *experiment) execute() (*result.Run, error) {
 	}
 	points := x.grid()
 	checked := false
-	for _, pt := range points {
+	loop := points
+	if x.pairedAxis() >= 0 {
+		// A paired comparison runs a point's variants together (variants.go).
+		if err := x.runGroups(ctx, run, points, rules, seed, workers); err != nil {
+			if errors.Is(err, ErrInterrupted) {
+				return run, err
+			}
+			return nil, err
+		}
+		loop = nil
+	}
+	for _, pt := range loop {
 		if skip, why := x.skip(run, pt); skip {
 			run.Points = append(run.Points, x.skipped(run, pt, why))
 			if pt.Index >= o.Reported {

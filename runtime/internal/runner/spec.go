@@ -46,6 +46,9 @@ type Param struct {
 	Name   string
 	Values []float64
 	Labels []string
+	// Paired marks the variants of a paired comparison (sim.Experiment.Variants): its values
+	// run on common random numbers, the first the reference.
+	Paired bool
 }
 
 // Curve is a theory curve.
