@@ -16,31 +16,38 @@ import (
 func init() {
 	Symbols["tally/blocks/link/link"] = map[string]reflect.Value{
 		// function, constant and variable definitions
-		"Adaptive":       reflect.ValueOf(link.Adaptive),
-		"Chain":          reflect.ValueOf(link.Chain),
-		"Count":          reflect.ValueOf(link.Count),
-		"CountErrors":    reflect.ValueOf(link.CountErrors),
-		"Decoder":        reflect.ValueOf(link.Decoder),
-		"Detector":       reflect.ValueOf(link.Detector),
-		"EstimatorNamed": reflect.ValueOf(link.EstimatorNamed),
-		"Func":           reflect.ValueOf(link.Func),
-		"GaussianNoise":  reflect.ValueOf(link.GaussianNoise),
-		"GrowBytes":      reflect.ValueOf(link.GrowBytes),
-		"GrowComplex":    reflect.ValueOf(link.GrowComplex),
-		"GrowFloats":     reflect.ValueOf(link.GrowFloats),
-		"Importance":     reflect.ValueOf(link.Importance),
-		"KindOf":         reflect.ValueOf(link.KindOf),
-		"LinearFilter":   reflect.ValueOf(link.LinearFilter),
-		"NameOf":         reflect.ValueOf(link.NameOf),
-		"NonGaussian":    reflect.ValueOf(link.NonGaussian),
-		"PerSample":      reflect.ValueOf(link.PerSample),
-		"SemiAnalytic":   reflect.ValueOf(link.SemiAnalytic),
-		"SymbolFading":   reflect.ValueOf(link.SymbolFading),
-		"TapBER":         reflect.ValueOf(constant.MakeFromLiteral("\"ber\"", token.STRING, 0)),
-		"TapFER":         reflect.ValueOf(constant.MakeFromLiteral("\"fer\"", token.STRING, 0)),
-		"TapPre":         reflect.ValueOf(constant.MakeFromLiteral("\"pre\"", token.STRING, 0)),
-		"Undeclared":     reflect.ValueOf(link.Undeclared),
-		"Unestimated":    reflect.ValueOf(link.Unestimated),
+		"Adaptive":        reflect.ValueOf(link.Adaptive),
+		"Chain":           reflect.ValueOf(link.Chain),
+		"Count":           reflect.ValueOf(link.Count),
+		"CountErrors":     reflect.ValueOf(link.CountErrors),
+		"Decoder":         reflect.ValueOf(link.Decoder),
+		"Detector":        reflect.ValueOf(link.Detector),
+		"EstimatorNamed":  reflect.ValueOf(link.EstimatorNamed),
+		"Func":            reflect.ValueOf(link.Func),
+		"GaussianNoise":   reflect.ValueOf(link.GaussianNoise),
+		"GrowBytes":       reflect.ValueOf(link.GrowBytes),
+		"GrowComplex":     reflect.ValueOf(link.GrowComplex),
+		"GrowFloats":      reflect.ValueOf(link.GrowFloats),
+		"Importance":      reflect.ValueOf(link.Importance),
+		"KindOf":          reflect.ValueOf(link.KindOf),
+		"LinearFilter":    reflect.ValueOf(link.LinearFilter),
+		"NameOf":          reflect.ValueOf(link.NameOf),
+		"NonGaussian":     reflect.ValueOf(link.NonGaussian),
+		"OnlyWrong":       reflect.ValueOf(link.OnlyWrong),
+		"PairDiscordant":  reflect.ValueOf(constant.MakeFromLiteral("\"discordant\"", token.STRING, 0)),
+		"PairOnlyRef":     reflect.ValueOf(constant.MakeFromLiteral("\"only_ref\"", token.STRING, 0)),
+		"PairOnlyVariant": reflect.ValueOf(constant.MakeFromLiteral("\"only_variant\"", token.STRING, 0)),
+		"PairTaps":        reflect.ValueOf(link.PairTaps),
+		"Paired":          reflect.ValueOf(link.Paired),
+		"PerSample":       reflect.ValueOf(link.PerSample),
+		"RoleOf":          reflect.ValueOf(link.RoleOf),
+		"SemiAnalytic":    reflect.ValueOf(link.SemiAnalytic),
+		"SymbolFading":    reflect.ValueOf(link.SymbolFading),
+		"TapBER":          reflect.ValueOf(constant.MakeFromLiteral("\"ber\"", token.STRING, 0)),
+		"TapFER":          reflect.ValueOf(constant.MakeFromLiteral("\"fer\"", token.STRING, 0)),
+		"TapPre":          reflect.ValueOf(constant.MakeFromLiteral("\"pre\"", token.STRING, 0)),
+		"Undeclared":      reflect.ValueOf(link.Undeclared),
+		"Unestimated":     reflect.ValueOf(link.Unestimated),
 
 		// type definitions
 		"Block":            reflect.ValueOf((*link.Block)(nil)),
@@ -57,6 +64,7 @@ func init() {
 		"Link":             reflect.ValueOf((*link.Link)(nil)),
 		"Named":            reflect.ValueOf((*link.Named)(nil)),
 		"Nature":           reflect.ValueOf((*link.Nature)(nil)),
+		"Roled":            reflect.ValueOf((*link.Roled)(nil)),
 		"Sized":            reflect.ValueOf((*link.Sized)(nil)),
 		"Tally":            reflect.ValueOf((*link.Tally)(nil)),
 
@@ -69,6 +77,7 @@ func init() {
 		"_LinearAfterNoise": reflect.ValueOf((*_tally_blocks_link_LinearAfterNoise)(nil)),
 		"_Named":            reflect.ValueOf((*_tally_blocks_link_Named)(nil)),
 		"_Nature":           reflect.ValueOf((*_tally_blocks_link_Nature)(nil)),
+		"_Roled":            reflect.ValueOf((*_tally_blocks_link_Roled)(nil)),
 		"_Sized":            reflect.ValueOf((*_tally_blocks_link_Sized)(nil)),
 	}
 }
@@ -155,6 +164,16 @@ type _tally_blocks_link_Nature struct {
 
 func (W _tally_blocks_link_Nature) Nature() link.Kind {
 	return W.WNature()
+}
+
+// _tally_blocks_link_Roled is an interface wrapper for Roled type
+type _tally_blocks_link_Roled struct {
+	IValue interface{}
+	WRole  func() string
+}
+
+func (W _tally_blocks_link_Roled) Role() string {
+	return W.WRole()
 }
 
 // _tally_blocks_link_Sized is an interface wrapper for Sized type
