@@ -74,7 +74,7 @@ func TestVariantsCompareOnSameFrames(t *testing.T) {
 		t.Fatalf("identical variants: stop %q, %+v", r.Points[1].Stop, c)
 	}
 	csv := string(output.Table(r))
-	if !strings.Contains(csv, "rx,bits,errors,ber,ci_low,ci_high,stop,") || !strings.HasSuffix(strings.SplitN(csv, "\n", 2)[0], ",diff,diff_low,diff_high,ratio,ratio_low,ratio_high,diff_p") {
+	if !strings.Contains(csv, "rx,ber_trials,ber_errors,ber,ber_low,ber_high,stop,") || !strings.HasSuffix(strings.SplitN(csv, "\n", 2)[0], ",diff,diff_low,diff_high,ratio,ratio_low,ratio_high,diff_p") {
 		t.Fatalf("table head:\n%s", csv)
 	}
 	if sum := string(output.Summary(r, nil)); !strings.Contains(sum, "## Paired comparison") || !strings.Contains(sum, "same against ref") {

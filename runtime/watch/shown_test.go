@@ -1,8 +1,8 @@
 package watch
 
 import (
-	"fmt"
 	"strings"
+	"tally/blocks/stats"
 	"testing"
 
 	"tally/blocks/compare"
@@ -22,7 +22,7 @@ func TestChangesOnShownTap(t *testing.T) {
 	}
 	got := strings.Join(Changes(run(30), run(90)), "\n")
 	res, _ := compare.Proportions(30, 9e5, 90, 9e5)
-	for _, want := range []string{fmt.Sprintf("ebn0_db=8  payload 3.33e-05 → 0.0001 (×3)  CHANGED, p = %.2g", res.P), "Fisher's exact test on the payload counts"} {
+	for _, want := range []string{"ebn0_db=8  payload 3.33e-05 → 0.0001 (×3)  CHANGED, " + stats.FormatP(res.P) + " (Fisher on totals)", "p on the payload counts: Fisher on totals"} {
 		if !strings.Contains(got, want) {
 			t.Errorf("Changes lacks %q:\n%s", want, got)
 		}
