@@ -23,12 +23,12 @@ import (
 
 func main() {
 	x := sim.New("Vineyard gateway: three equalisers on the same frames")
-	x.Sweep("ebn0_db", sim.Range(4, 10, 2)...)
+	ebn0 := x.Axis("ebn0_db", sim.Range(4, 10, 2)...)
 	x.Variants("receiver", "LMS 0.03", "LMS 0.008", "MMSE")
 	echo := []complex128{1, 0.42i, -0.18}
 	x.Link(func(p sim.Point) *link.Link {
 		m := modem.QPSK()
-		l := link.Chain(source.Random(2048), m.Mod(), channel.Multipath(echo), channel.AWGN(p.Get("ebn0_db")))
+		l := link.Chain(source.Random(2048), m.Mod(), channel.Multipath(echo), channel.AWGN(ebn0.At(p)))
 		switch p.Label("receiver") {
 		case "LMS 0.03":
 			l.Add(equalize.LMS(11, 0.03))
