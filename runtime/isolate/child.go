@@ -95,7 +95,9 @@ func Serve() int {
 	cfg := config(j)
 	cfg.Log = logf
 	cfg.Stdout = os.Stdout
-	cfg.OnPoint = func(r *result.Run, total int) { c.send(report{Kind: kindPoint, Run: wire.WithoutLogs(r), Total: total}) }
+	cfg.OnPoint = func(r *result.Run, total int) {
+		c.send(report{Kind: kindPoint, Run: wire.WithoutLogs(r), Total: total})
+	}
 	if j.Follow {
 		cfg.OnProgress = c.progress
 	}
@@ -194,4 +196,3 @@ func (c *child) watchMemory(limit int64) {
 		}
 	}
 }
-

@@ -91,7 +91,9 @@ func childOptions() (o *Options, ok bool) {
 	child = c
 	o = &Options{Context: ctx, Script: j.Path, Source: j.Source, Mode: "compiled", Workers: j.Workers, Seed: j.Seed,
 		SeedSet: j.SeedSet, Quiet: j.Quiet, Log: logf, Long: j.Settings(), Reported: j.Reported, Reuse: j.Reuse}
-	o.OnPoint = func(r *result.Run, total int) { c.send(wire.Report{Kind: wire.KindPoint, Run: wire.WithoutLogs(r), Total: total}) }
+	o.OnPoint = func(r *result.Run, total int) {
+		c.send(wire.Report{Kind: wire.KindPoint, Run: wire.WithoutLogs(r), Total: total})
+	}
 	if j.Follow {
 		o.OnProgress = func(p progress.Point, pr *stop.Progress) {
 			c.send(wire.Report{Kind: wire.KindLive, Live: wire.LiveOf(p, pr)})
