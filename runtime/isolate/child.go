@@ -8,8 +8,6 @@ import (
 	"os"
 	"os/signal"
 	"runtime/debug"
-	"runtime/metrics"
-	"sync"
 	"time"
 
 	"tally/blocks/stop"
@@ -53,7 +51,7 @@ func Serve() int {
 	for fd := 3; fd <= 5; fd++ {
 		closeOnExec(fd)
 	}
-	c := &child{enc: gob.NewEncoder(out), answers: make(chan reply)}
+	c := &child{wire.NewPipes(out)}
 	dec := gob.NewDecoder(ctl)
 	var j job
 	if err := dec.Decode(&j); err != nil {
@@ -65,10 +63,10 @@ func Serve() int {
 	signal.Ignore(os.Interrupt)
 	debug.SetMaxStack(MaxStack)
 	if j.Memory > 0 {
-		// The runtime collects harder as the heap nears the limit; watchMemory ends the run
+		// The runtime collects harder as the heap nears the limit; WatchMemory ends the run
 		// when collecting no longer keeps it below.
 		debug.SetMemoryLimit(j.Memory)
-		go c.watchMemory(j.Memory)
+		go c.WatchMemory(j.Memory)
 	}
 	ctx, cancel := context.WithCancelCause(context.Background())
 	stop := func() { cancel(nil) }
@@ -88,7 +86,7 @@ func Serve() int {
 				stop()
 				continue
 			}
-			c.answers <- r
+			c.Answers <- r
 		}
 	}()
 
@@ -96,18 +94,18 @@ func Serve() int {
 	cfg.Log = logf
 	cfg.Stdout = os.Stdout
 	cfg.OnPoint = func(r *result.Run, total int) {
-		c.send(report{Kind: kindPoint, Run: wire.WithoutLogs(r), Total: total})
+		c.Send(report{Kind: kindPoint, Run: wire.WithoutLogs(r), Total: total})
 	}
 	if j.Follow {
 		cfg.OnProgress = c.progress
 	}
 	cfg.Done = func(r *result.Run) error {
-		c.send(report{Kind: kindDone, Run: r})
-		return c.answer()
+		c.Send(report{Kind: kindDone, Run: r})
+		return c.Answer()
 	}
 	cfg.Output = func(dir string, _ *result.Run) error {
-		c.send(report{Kind: kindWrite, Dir: dir})
-		return c.answer()
+		c.Send(report{Kind: kindWrite, Dir: dir})
+		return c.Answer()
 	}
 	cfg.Position = func(where func() string) { go c.samplePos(ctx, where) }
 	if j.HandAt != nil {
@@ -126,37 +124,17 @@ func Serve() int {
 	default:
 		end.Err = err.Error()
 	}
-	c.send(end)
+	c.Send(end)
 	out.Close()
 	// Goroutines the script started end with the process.
 	return 0
 }
 
-type child struct {
-	mu      sync.Mutex
-	enc     *gob.Encoder
-	answers chan reply
-}
-
-func (c *child) send(r report) {
-	c.mu.Lock()
-	defer c.mu.Unlock()
-	if err := c.enc.Encode(r); err != nil {
-		os.Exit(3) // the parent stopped listening
-	}
-}
+type child struct{ *wire.Pipes }
 
 // progress sends the running point's prefix (the engine calls it every progress.Every).
 func (c *child) progress(p progress.Point, pr *stop.Progress) {
-	c.send(report{Kind: kindLive, Live: liveOf(p, pr)})
-}
-
-func (c *child) answer() error {
-	r := <-c.answers
-	if r.Err != "" {
-		return errors.New(r.Err)
-	}
-	return nil
+	c.Send(report{Kind: kindLive, Live: liveOf(p, pr)})
 }
 
 // samplePos tells the parent where the script is, so a crash can be placed at a statement.
@@ -170,7 +148,7 @@ func (c *child) samplePos(ctx context.Context, where func() string) {
 	for {
 		if p := where(); p != last {
 			last = p
-			c.send(report{Kind: kindPos, Pos: p})
+			c.Send(report{Kind: kindPos, Pos: p})
 		}
 		select {
 		case <-ctx.Done():
@@ -178,21 +156,6 @@ func (c *child) samplePos(ctx context.Context, where func() string) {
 		case <-slow:
 			t.Reset(10 * time.Millisecond)
 		case <-t.C:
-		}
-	}
-}
-
-// watchMemory ends the child when the memory the Go runtime holds from the system stays
-// above the limit.
-func (c *child) watchMemory(limit int64) {
-	s := []metrics.Sample{{Name: "/memory/classes/total:bytes"}, {Name: "/memory/classes/heap/released:bytes"}}
-	for {
-		time.Sleep(25 * time.Millisecond)
-		metrics.Read(s)
-		held := int64(s[0].Value.Uint64() - s[1].Value.Uint64())
-		if held > limit {
-			c.send(report{Kind: kindMemory, Bytes: held})
-			os.Exit(4)
 		}
 	}
 }

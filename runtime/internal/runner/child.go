@@ -8,9 +8,6 @@ import (
 	"os"
 	"os/signal"
 	"runtime/debug"
-	"runtime/metrics"
-	"sync"
-	"time"
 
 	"tally/blocks/stop"
 	"tally/runtime/internal/wire"
@@ -29,11 +26,9 @@ import (
 var child *childPipes
 
 type childPipes struct {
-	mu      sync.Mutex
-	enc     *gob.Encoder
-	answers chan wire.Reply
-	stdout  *os.File // the real standard output, from Run on
-	shown   string   // the script's path as tally named it, for positions
+	*wire.Pipes
+	stdout *os.File // the real standard output, from Run on
+	shown  string   // the script's path as tally named it, for positions
 }
 
 // childOptions reads the job of a compiled run's process and makes its options; ok is false
@@ -56,7 +51,7 @@ func childOptions() (o *Options, ok bool) {
 	for fd := 3; fd <= 5; fd++ {
 		closeOnExec(fd)
 	}
-	c := &childPipes{enc: gob.NewEncoder(out), answers: make(chan wire.Reply)}
+	c := &childPipes{Pipes: wire.NewPipes(out)}
 	dec := gob.NewDecoder(ctl)
 	var j wire.Job
 	if err := dec.Decode(&j); err != nil {
@@ -68,7 +63,7 @@ func childOptions() (o *Options, ok bool) {
 	debug.SetMaxStack(32 << 20)
 	if j.Memory > 0 {
 		debug.SetMemoryLimit(j.Memory)
-		go c.watchMemory(j.Memory)
+		go c.WatchMemory(j.Memory)
 	}
 	ctx, cancel := context.WithCancel(context.Background())
 	go func() {
@@ -81,7 +76,7 @@ func childOptions() (o *Options, ok bool) {
 				cancel()
 				continue
 			}
-			c.answers <- r
+			c.Answers <- r
 		}
 	}()
 	c.stdout, c.shown = os.Stdout, j.Path
@@ -92,38 +87,22 @@ func childOptions() (o *Options, ok bool) {
 	o = &Options{Context: ctx, Script: j.Path, Source: j.Source, Mode: "compiled", Workers: j.Workers, Seed: j.Seed,
 		SeedSet: j.SeedSet, Quiet: j.Quiet, Log: logf, Long: j.Settings(), Reported: j.Reported, Reuse: j.Reuse}
 	o.OnPoint = func(r *result.Run, total int) {
-		c.send(wire.Report{Kind: wire.KindPoint, Run: wire.WithoutLogs(r), Total: total})
+		c.Send(wire.Report{Kind: wire.KindPoint, Run: wire.WithoutLogs(r), Total: total})
 	}
 	if j.Follow {
 		o.OnProgress = func(p progress.Point, pr *stop.Progress) {
-			c.send(wire.Report{Kind: wire.KindLive, Live: wire.LiveOf(p, pr)})
+			c.Send(wire.Report{Kind: wire.KindLive, Live: wire.LiveOf(p, pr)})
 		}
 	}
 	o.Done = func(r *result.Run) error {
-		c.send(wire.Report{Kind: wire.KindDone, Run: r})
-		return c.answer()
+		c.Send(wire.Report{Kind: wire.KindDone, Run: r})
+		return c.Answer()
 	}
 	o.Output = func(dir string, _ *result.Run) error {
-		c.send(wire.Report{Kind: wire.KindWrite, Dir: dir})
-		return c.answer()
+		c.Send(wire.Report{Kind: wire.KindWrite, Dir: dir})
+		return c.Answer()
 	}
 	return o, true
-}
-
-func (c *childPipes) send(r wire.Report) {
-	c.mu.Lock()
-	defer c.mu.Unlock()
-	if err := c.enc.Encode(r); err != nil {
-		os.Exit(3) // the parent stopped listening
-	}
-}
-
-func (c *childPipes) answer() error {
-	r := <-c.answers
-	if r.Err != "" {
-		return errors.New(r.Err)
-	}
-	return nil
 }
 
 // started gives the script its standard output back: from Run on, what it prints is new.
@@ -146,20 +125,5 @@ func (c *childPipes) end(err error) {
 	default:
 		e.Err = err.Error()
 	}
-	c.send(e)
-}
-
-// watchMemory ends the process when the memory the Go runtime holds from the system stays
-// above the limit (as the interpreter's process does).
-func (c *childPipes) watchMemory(limit int64) {
-	s := []metrics.Sample{{Name: "/memory/classes/total:bytes"}, {Name: "/memory/classes/heap/released:bytes"}}
-	for {
-		time.Sleep(25 * time.Millisecond)
-		metrics.Read(s)
-		held := int64(s[0].Value.Uint64() - s[1].Value.Uint64())
-		if held > limit {
-			c.send(wire.Report{Kind: wire.KindMemory, Bytes: held})
-			os.Exit(4)
-		}
-	}
+	c.Send(e)
 }
