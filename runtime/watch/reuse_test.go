@@ -247,3 +247,58 @@ func TestFramesSameForAnyWorkers(t *testing.T) {
 		t.Error("frames.gz differs between 1 and 3 workers")
 	}
 }
+
+// A paired script (sim.Variants) whose stop rule alone changed computes the same frames for
+// every variant: the report says so and tests nothing, as for a plain sweep.
+func TestWatchPairedStopRuleOnlySameFrames(t *testing.T) {
+	dir := t.TempDir()
+	exp := filepath.Join(dir, "exp.go")
+	script := func(bits string) string {
+		return `//go:build ignore
+
+package main
+
+import (
+	"tally/blocks/channel"
+	"tally/blocks/link"
+	"tally/blocks/modem"
+	"tally/blocks/source"
+	"tally/blocks/stop"
+	"tally/runtime/sim"
+)
+
+func main() {
+	x := sim.New("paired")
+	ebn0 := x.Axis("ebn0_db", 3, 5)
+	x.Variants("rx", "ref", "hot")
+	x.Link(func(p sim.Point) *link.Link {
+		m := modem.BPSK()
+		db := ebn0.At(p)
+		if p.Label("rx") == "hot" {
+			db += 0.5
+		}
+		return link.Chain(source.Random(512), m.Mod(), channel.AWGN(db), m.Demod())
+	})
+	x.Stop(stop.Bits(` + bits + `))
+	x.Run()
+}
+`
+	}
+	write(t, exp, script("5e4"))
+	h := start(t, exp)
+	first := h.wait(Finished, exp)
+	for _, p := range first.Run.Points {
+		if p.LinkFingerprint == "" {
+			t.Fatalf("%s: no fingerprint", label(first.Run, p))
+		}
+	}
+	write(t, exp, script("1e5"))
+	e := h.wait(Finished, exp)
+	got := changesOf(e)
+	if !strings.Contains(got, "all 4 points: same link and seed, so the same frames (not tested)") {
+		t.Errorf("no same-frames line:\n%s", got)
+	}
+	if strings.Contains(got, "CHANGED") || strings.Contains(got, "p =") {
+		t.Errorf("a stop rule change was tested:\n%s", got)
+	}
+}

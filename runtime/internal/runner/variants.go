@@ -187,6 +187,9 @@ func (x *experiment) runGroup(ctx context.Context, g group, rules []stop.Rule, s
 		return nil, err
 	}
 	lay := layoutOf(probe)
+	// The group's fingerprint covers every variant's link: while none changes, the group
+	// computes the same frames (a what-changed report then tests nothing).
+	fp, wholeScript := linkFingerprint(probe, g.rows[0], seed, x.script)
 	where := x.opts.Where
 	if where == nil {
 		where = func() string { return scriptPos(callers(5)) }
@@ -213,7 +216,8 @@ func (x *experiment) runGroup(ctx context.Context, g group, rules []stop.Rule, s
 	pairs := lay.pairs(whole)
 	rps := make([]result.Point, len(g.rows))
 	for v, pt := range g.rows {
-		rp := result.Point{Values: pt.Values, Frames: out.Frames, Stop: out.Stop, Seconds: out.Elapsed.Seconds(), Claim: claim}
+		rp := result.Point{Values: pt.Values, Frames: out.Frames, Stop: out.Stop, Seconds: out.Elapsed.Seconds(), Claim: claim,
+			LinkFingerprint: fp + "/" + names[v], WholeScript: wholeScript, RulesFingerprint: x.rulesPrint}
 		view := lay.view(whole, v)
 		for i, name := range view.Taps {
 			tap, err := x.countedTap(name, view.Counts[i])
