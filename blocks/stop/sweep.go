@@ -11,8 +11,17 @@ import (
 // Outcome is a finished point as a sweep rule sees it.
 type Outcome struct {
 	X        float64        // value of the first sweep axis (for example Eb/N0 in dB)
-	Tally    link.Tally     // counts of the BER tap
-	Estimate stats.Estimate // the point's reported estimate and interval of the BER tap
+	Tally    link.Tally     // counts of the tap the rule judges (SweepTap: the BER unless set)
+	Estimate stats.Estimate // the point's reported estimate and interval of that tap
+}
+
+// SweepTap is the tap a sweep rule judges: the one set by its Tap method (Floor, Budget), else
+// the BER tap.
+func SweepTap(r SweepRule) string {
+	if t, ok := r.(interface{ sweepTap() string }); ok && t.sweepTap() != "" {
+		return t.sweepTap()
+	}
+	return link.TapBER
 }
 
 // SweepRule decides, between points along the first sweep axis, whether the next point is
@@ -25,10 +34,19 @@ type SweepRule interface {
 
 // FloorRule ends a curve after its first point shown below Floor (the point's High < Floor):
 // below that rate nothing more is of interest, and the points beyond would be the dearest.
-type FloorRule struct{ Floor float64 }
+type FloorRule struct {
+	Floor float64
+	On    string // the tap judged; "" for the BER
+}
 
 // Floor ends a curve after the first point whose interval lies below ber.
 func Floor(ber float64) *FloorRule { return &FloorRule{Floor: ber} }
+
+// Tap makes the floor judge another tap, for example a payload tap of the script's own that
+// the point rules count on (stop.Errors(100).Tap("payload")).
+func (r *FloorRule) Tap(name string) *FloorRule { r.On = name; return r }
+
+func (r *FloorRule) sweepTap() string { return r.On }
 
 // Skip is true once any finished point is shown below Floor.
 func (r *FloorRule) Skip(done []Outcome, next float64) (bool, string) {
@@ -53,6 +71,7 @@ func (r *FloorRule) Err() error { return checkRate("stop.Floor", r.Floor) }
 type BitBudget struct {
 	Max    float64 // bits a point may take
 	Errors int64   // errors a point is meant to count (as its Errors rule); 100 by default
+	On     string  // the tap whose rate predicts the bits; "" for the BER
 }
 
 // Budget skips points predicted to need more than bits bits for 100 errors.
@@ -60,6 +79,12 @@ func Budget(bits float64) *BitBudget { return &BitBudget{Max: bits, Errors: 100}
 
 // For sets the errors a point is meant to count (match the point's Errors rule).
 func (r *BitBudget) For(errors int64) *BitBudget { r.Errors = errors; return r }
+
+// Tap makes the budget predict from another tap's rate (the tap the point's Errors rule
+// counts on); its trials are then what the budget counts.
+func (r *BitBudget) Tap(name string) *BitBudget { r.On = name; return r }
+
+func (r *BitBudget) sweepTap() string { return r.On }
 
 // Predict is the BER expected at x from the last two finished points with errors, and false
 // when there are not two such points at distinct x.

@@ -168,3 +168,39 @@ func ExampleExperiment_Show() {
 	// [payload ber]
 	// | ebn0_db | payload trials | payload errors | payload | payload interval | BER bits | BER errors | BER | BER interval | stop |
 }
+
+// A sweep rule judges the tap it names: on payloadLink the whole-frame BER has a floor near
+// 1.25e-3, so stop.Floor(1e-3) on the BER ends no curve, while on the payload tap (BPSK over
+// AWGN, 7.7e-4 at 7 dB by Proakis eq. 5.2-5 — the formula of bpsk above) it skips the points
+// after the first one shown below 1e-3; the reason names the tap.
+func TestSweepRuleOnTap(t *testing.T) {
+	for _, c := range []struct {
+		floor   *stop.FloorRule
+		skipped int
+	}{
+		{stop.Floor(1e-3), 0},
+		{stop.Floor(1e-3).Tap("payload"), 1},
+	} {
+		x := testExperiment("floor", &runner.Options{Quiet: true, Workers: 2})
+		x.Sweep("ebn0_db", 4, 7, 9)
+		x.Link(payloadLink)
+		x.Stop(stop.Errors(100).Tap("payload"), stop.Bits(2e6))
+		x.StopSweep(c.floor)
+		r, err := x.execute()
+		if err != nil {
+			t.Fatal(err)
+		}
+		n := 0
+		for _, p := range r.Points {
+			if p.Stop == "skipped" {
+				n++
+				if !strings.HasPrefix(p.Note, "payload: ") {
+					t.Errorf("skipped with %q: want the tap named", p.Note)
+				}
+			}
+		}
+		if n != c.skipped {
+			t.Errorf("floor on %q: %d points skipped, want %d (7 dB: payload BPSK %.2g)", stop.SweepTap(c.floor), n, c.skipped, bpsk(7))
+		}
+	}
+}

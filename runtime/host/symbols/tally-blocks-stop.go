@@ -28,6 +28,7 @@ func init() {
 		"Frames":            reflect.ValueOf(stop.Frames),
 		"Precision":         reflect.ValueOf(stop.Precision),
 		"Shown":             reflect.ValueOf(stop.Shown),
+		"SweepTap":          reflect.ValueOf(stop.SweepTap),
 		"Time":              reflect.ValueOf(stop.Time),
 		"Within":            reflect.ValueOf(stop.Within),
 

@@ -2,6 +2,7 @@ package runner
 
 import (
 	"fmt"
+	"slices"
 
 	"tally/blocks/link"
 	"tally/blocks/stats"
@@ -11,7 +12,7 @@ import (
 
 // StopSweep sets rules that end or thin each curve along the x axis: stop.Floor ends a curve
 // after its first point shown below a floor BER, stop.Budget skips points predicted to need
-// more bits than a cap. Skipped points stay in the table with stop "skipped" and the reason in
+// more bits than a cap; each judges the BER tap unless its Tap names another. Skipped points stay in the table with stop "skipped" and the reason in
 // run.json.
 func (x *experiment) StopSweep(rules ...stop.SweepRule) *experiment {
 	for _, r := range rules {
@@ -35,21 +36,29 @@ func (x *experiment) skip(run *result.Run, pt Point) (bool, string) {
 	}
 	nx := len(x.Params[0].Values)
 	first := pt.Index - pt.Index%nx // first point of pt's curve
-	var done []stop.Outcome
-	for _, p := range run.Points[first:pt.Index] {
-		if p.Stop == "skipped" || len(p.Taps) == 0 {
-			continue
-		}
-		t := p.Taps[0]
-		errs := t.Errors
-		if t.Weighted() {
-			errs = 0 // a budget predicts bits for counted errors only; a floor reads the interval
-		}
-		done = append(done, stop.Outcome{X: p.Values[0], Tally: link.Tally{Trials: t.Trials, Errors: errs},
-			Estimate: stats.Estimate{Rate: t.Rate, Low: t.Low, High: t.High, Method: t.Method}})
-	}
 	for _, r := range x.SweepRules {
+		tap := stop.SweepTap(r)
+		var done []stop.Outcome
+		for _, p := range run.Points[first:pt.Index] {
+			if p.Stop == "skipped" {
+				continue
+			}
+			i := slices.IndexFunc(p.Taps, func(t result.Tap) bool { return t.Name == tap && !t.Absent })
+			if i < 0 {
+				continue
+			}
+			t := p.Taps[i]
+			errs := t.Errors
+			if t.Weighted() {
+				errs = 0 // a budget predicts bits for counted errors only; a floor reads the interval
+			}
+			done = append(done, stop.Outcome{X: p.Values[0], Tally: link.Tally{Trials: t.Trials, Errors: errs},
+				Estimate: stats.Estimate{Rate: t.Rate, Low: t.Low, High: t.High, Method: t.Method}})
+		}
 		if s, why := r.Skip(done, pt.Values[0]); s {
+			if tap != link.TapBER {
+				why = tap + ": " + why
+			}
 			return true, why
 		}
 	}
