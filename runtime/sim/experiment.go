@@ -124,6 +124,7 @@ func (x *Experiment) Stop(rules ...stop.Rule) *Experiment {
 		}
 	}
 	x.spec.Rules = append(x.spec.Rules, rules...)
+	x.spec.NameRules("sim.Stop", x.opts.Here(), rules)
 	return x
 }
 
@@ -149,6 +150,9 @@ func (x *Experiment) TargetOn(tap string, rate float64, against ...string) *Expe
 		runner.Fail(fmt.Errorf("sim.Target: rate %v must lie between 0 and 1", rate))
 	}
 	t := runner.Target{Tap: tap, Rate: rate}
+	if tap != link.TapBER {
+		x.spec.NameTap("sim.TargetOn", x.opts.Here(), tap)
+	}
 	if len(against) > 0 {
 		t.Against = against[0]
 	}
@@ -193,6 +197,10 @@ func (x *Experiment) StopSweep(rules ...stop.SweepRule) *Experiment {
 		}
 	}
 	x.spec.SweepRules = append(x.spec.SweepRules, rules...)
+	at := x.opts.Here()
+	for _, r := range rules {
+		x.spec.NameTap("sim.StopSweep", at, stop.SweepTap(r))
+	}
 	return x
 }
 

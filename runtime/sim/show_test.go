@@ -204,3 +204,28 @@ func TestSweepRuleOnTap(t *testing.T) {
 		}
 	}
 }
+
+// A tap a stop rule names that no link counts (a misspelt "paylod") is said, on the log at the
+// first point and in the run's notes, instead of the rule silently never being met.
+func TestNamedTapNoLinkCounts(t *testing.T) {
+	var log bytes.Buffer
+	x := testExperiment("typo", &runner.Options{Workers: 1, Log: &log})
+	x.Sweep("ebn0_db", 4, 6)
+	x.Link(payloadLink)
+	x.Stop(stop.Errors(50).Tap("paylod"), stop.Bits(2e4))
+	r, err := x.execute()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, p := range r.Points {
+		if p.Stop != "bits" {
+			t.Errorf("stop %q: a rule on a tap no link counts cannot be met", p.Stop)
+		}
+	}
+	if !strings.Contains(log.String(), `sim.Stop names the tap "paylod", which the first point's link does not count (it counts ber, fer, payload)`) {
+		t.Errorf("log lacks the warning:\n%s", log.String())
+	}
+	if !slices.ContainsFunc(r.Notes, func(n string) bool { return strings.Contains(n, `names the tap "paylod", which no link in the run counts`) }) {
+		t.Errorf("notes %q lack the unknown tap", r.Notes)
+	}
+}

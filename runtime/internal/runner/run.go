@@ -211,6 +211,7 @@ func (x *experiment) execute() (*result.Run, error) {
 			if err := x.checkShown(rp); err != nil {
 				return nil, err
 			}
+			x.warnNamed(rp)
 			checked = true
 		}
 		run.Taps = unionTaps(run.Taps, rp.Taps)
@@ -233,6 +234,7 @@ func (x *experiment) execute() (*result.Run, error) {
 	run.Shards = x.long.Record()
 	alignTaps(run)
 	settleShown(run)
+	x.namedNotes(run)
 	x.frameNotes(run)
 	x.findTargets(run)
 	x.checkLimits(run)

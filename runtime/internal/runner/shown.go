@@ -106,6 +106,35 @@ func (x *experiment) checkShown(rp result.Point) error {
 	return nil
 }
 
+// warnNamed says at once, on the log, when the first point's link counts no tap a declaration
+// names (stop.Errors(100).Tap("paylod")): a rule on it is never met there and a target never
+// crossed. It is not refused, since a later curve's link may count the tap; namedNotes puts
+// the names no point counted into the outputs.
+func (x *experiment) warnNamed(rp result.Point) {
+	for _, n := range x.Named {
+		if n.Tap == link.TapPre || slices.ContainsFunc(rp.Taps, func(t result.Tap) bool { return t.Name == n.Tap && !t.Absent }) {
+			continue
+		}
+		var have []string
+		for _, t := range rp.Taps {
+			if !t.Absent {
+				have = append(have, t.Name)
+			}
+		}
+		x.opts.logf("note: %s: %s names the tap %q, which the first point's link does not count (it counts %s): a rule on it is never met there\n",
+			n.At, n.What, n.Tap, strings.Join(have, ", "))
+	}
+}
+
+// namedNotes notes in the run each tap a declaration names that no point counted.
+func (x *experiment) namedNotes(run *result.Run) {
+	for _, n := range x.Named {
+		if n.Tap != link.TapPre && run.TapIndex(n.Tap) < 0 {
+			run.Notes = append(run.Notes, fmt.Sprintf("%s (%s) names the tap %q, which no link in the run counts: a rule on it was never met.", n.What, n.At, n.Tap))
+		}
+	}
+}
+
 // settleShown keeps of run.Shown the taps some point counted (a rule or target on a tap the
 // link lacks names nothing to draw), and the BER tap when none is left.
 func settleShown(run *result.Run) {

@@ -34,6 +34,25 @@ type Spec struct {
 	// is the script position of the Show call, for a tap the link does not count.
 	Show   []string
 	ShowAt string
+	// Named are the taps the script's declarations name (a stop rule's Tap, a sweep rule's,
+	// TargetOn's) with where each was declared: a tap the links do not count is said (warnNamed,
+	// namedNotes), as a misspelt name would otherwise be judged on nothing and never met.
+	Named []NamedTap
+}
+
+// NamedTap is a tap a declaration names: Tap, named by What ("sim.Stop") at At.
+type NamedTap struct{ Tap, What, At string }
+
+// NameRules notes the taps rules judge (a declaration What at At).
+func (s *Spec) NameRules(what, at string, rules []stop.Rule) {
+	for _, t := range ruleTaps(rules) {
+		s.Named = append(s.Named, NamedTap{Tap: t, What: what, At: at})
+	}
+}
+
+// NameTap notes a tap a declaration What at At names.
+func (s *Spec) NameTap(what, at, tap string) {
+	s.Named = append(s.Named, NamedTap{Tap: tap, What: what, At: at})
 }
 
 // NewSpec is a spec with the defaults: 95 % Clopper–Pearson intervals, DefaultSeed.
