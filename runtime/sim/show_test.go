@@ -225,7 +225,9 @@ func TestNamedTapNoLinkCounts(t *testing.T) {
 	if !strings.Contains(log.String(), `sim.Stop names the tap "paylod", which the first point's link does not count (it counts ber, fer, payload)`) {
 		t.Errorf("log lacks the warning:\n%s", log.String())
 	}
-	if !slices.ContainsFunc(r.Notes, func(n string) bool { return strings.Contains(n, `names the tap "paylod", which no link in the run counts`) }) {
+	if !slices.ContainsFunc(r.Notes, func(n string) bool {
+		return strings.Contains(n, `names the tap "paylod", which no link in the run counts`)
+	}) {
 		t.Errorf("notes %q lack the unknown tap", r.Notes)
 	}
 }
