@@ -253,7 +253,11 @@ func TestFramesSameForAnyWorkers(t *testing.T) {
 func TestWatchPairedStopRuleOnlySameFrames(t *testing.T) {
 	dir := t.TempDir()
 	exp := filepath.Join(dir, "exp.go")
-	script := func(bits string) string {
+	script := func(bits string, offset ...string) string {
+		hot := "0.5"
+		if len(offset) > 0 {
+			hot = offset[0]
+		}
 		return `//go:build ignore
 
 package main
@@ -275,7 +279,7 @@ func main() {
 		m := modem.BPSK()
 		db := ebn0.At(p)
 		if p.Label("rx") == "hot" {
-			db += 0.5
+			db += ` + hot + `
 		}
 		return link.Chain(source.Random(512), m.Mod(), channel.AWGN(db), m.Demod())
 	})
@@ -300,5 +304,17 @@ func main() {
 	}
 	if strings.Contains(got, "CHANGED") || strings.Contains(got, "p =") {
 		t.Errorf("a stop rule change was tested:\n%s", got)
+	}
+
+	// The better variant made 2 dB better: its rows are tested frame by frame against the last
+	// run's (each variant keeps its own per-frame counts), the reference's are the same frames.
+	write(t, exp, script("1e5", "2.5"))
+	e = h.wait(Finished, exp)
+	got = changesOf(e)
+	if !strings.Contains(got, "2 of 4 points: same link and seed") && !strings.Contains(got, "the same errors in every frame") {
+		t.Errorf("the reference's rows not summed up as unchanged:\n%s", got)
+	}
+	if strings.Count(got, "  CHANGED, ") != 2 || strings.Count(got, "(paired, ") != 2 {
+		t.Errorf("want the two hot rows CHANGED, tested paired:\n%s", got)
 	}
 }

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"tally/runtime/framelog"
 
 	"tally/blocks/link"
 	"tally/blocks/stats"
@@ -245,9 +246,30 @@ func (x *experiment) runGroup(ctx context.Context, g group, rules []stop.Rule, s
 				rp.Paired.Narrower = wu / w
 			}
 		}
+		if out.Log.Usable() && out.Log.Frames == out.Frames {
+			rp.Log = lay.variantLog(out.Log, v)
+		}
 		rps[v] = rp
 	}
 	return rps, nil
+}
+
+// variantLog is variant v's own per-frame counts out of a paired point's log (its taps under
+// their plain names, as its row holds them), so a later run can compare the variant frame by
+// frame as it would a point of its own.
+func (lay layout) variantLog(l *framelog.Log, v int) *framelog.Log {
+	s, n := lay.start[v], len(lay.taps[v])
+	out := framelog.New(n)
+	c := make([]link.Tally, n)
+	l.Each(l.Frames, func(_, count int64, counts []int64) {
+		for i := range c {
+			c[i] = link.Tally{Trials: counts[2*(s+i)], Errors: counts[2*(s+i)+1]}
+		}
+		for range count {
+			out.Add(c)
+		}
+	})
+	return out
 }
 
 // countedTap is a counted tap's row: its interval for the run's method at a fixed sample
