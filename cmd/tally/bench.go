@@ -24,7 +24,7 @@ func benchCmd(args []string, stdout, stderr io.Writer) int {
 	fs.IntVar(&o.Workers, "workers", 0, "workers for the scaling lines (0: all cores)")
 	fs.IntVar(&o.Rounds, "rounds", 7, "rounds per path, interleaved; the fastest counts")
 	custom := fs.Bool("custom", false, "instead, run the custom-block case: a script's own per-sample block by tally run interpreted, handed over to the compiled script, and by go build plus the program")
-	customBits := fs.Float64("custom-bits", 1e6, "with -custom: bits per point (6 points)")
+	customBits := fs.Float64("custom-bits", 1e6, "with -custom: bits per point (2 points: the block as a loop and with the vector helpers)")
 	fs.Usage = func() {
 		fmt.Fprintf(stderr, "usage: tally bench [flags]\n\nRuns BPSK and Gray 16-QAM over AWGN (hard decisions) through an experiment script,\nthe same blocks compiled, and a plain reference loop, and reports Mbit/s and their ratios.\n\nflags:\n")
 		fs.PrintDefaults()

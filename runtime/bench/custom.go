@@ -3,7 +3,6 @@ package bench
 import (
 	"bytes"
 	"context"
-	_ "embed"
 	"fmt"
 	"io"
 	"os"
@@ -21,12 +20,6 @@ import (
 	"tally/runtime/progress"
 	"tally/runtime/result"
 )
-
-// HandoverScript is the custom-block case of tally bench -custom (handover_script.go): a
-// two-branch combiner over Rayleigh fading written as a block of the script's own, per sample.
-//
-//go:embed handover_script.go
-var HandoverScript []byte
 
 // CustomOptions are tally bench -custom's settings.
 type CustomOptions struct {
@@ -67,11 +60,6 @@ var CustomPaths = []CustomPath{
 	{Name: "compiled", Order: 40, Run: goBuildRun},
 }
 
-// HandoverSource is the custom-block script with its bit count per point set to bits.
-func HandoverSource(bits int64) []byte {
-	return bitsLine.ReplaceAll(HandoverScript, []byte("const bits = "+strconv.FormatInt(bits, 10)))
-}
-
 // Custom writes tally bench -custom's figures to w: the custom-block script run by tally run
 // interpreted only, by tally run with its hand-over to the compiled script (the build included,
 // from an empty binary cache; Go's own build cache as it is), and by go build plus running the
@@ -85,13 +73,14 @@ func Custom(ctx context.Context, o CustomOptions, w io.Writer) error {
 	}
 	paths := slices.Clone(CustomPaths)
 	slices.SortStableFunc(paths, func(a, b CustomPath) int { return a.Order - b.Order })
-	fmt.Fprintf(w, "custom block: two-branch combiner over Rayleigh fading, per sample in the script's own code;\n"+
-		"6 points of %d bits, %d workers (0: all cores), wall clock from the command to its end\n", o.Bits, o.Workers)
+	fmt.Fprintf(w, "custom block: two-branch combiner over Rayleigh fading, the script's own block written as a\n"+
+		"per-sample loop and with the vector helpers (combiner_script.go): %d points of %d bits, %d workers\n"+
+		"(0: all cores), wall clock from the command to its end\n", len(CombinerCases), o.Bits, o.Workers)
 	// Both builds below then find tally's packages in Go's build cache, as a user's second
 	// build does; what is measured is building the script and linking.
 	if dir, err := os.MkdirTemp("", "tally-bench-warm-"); err == nil {
 		t := time.Now()
-		_, err := compile.Script(ctx, compile.Request{Script: filepath.Join(dir, "custom.go"), Source: HandoverSource(o.Bits + 1), Cache: dir, Tool: host.Version})
+		_, err := compile.Script(ctx, compile.Request{Script: filepath.Join(dir, "custom.go"), Source: CombinerSource(o.Bits + 1), Cache: dir, Tool: host.Version})
 		os.RemoveAll(dir)
 		if err != nil {
 			return fmt.Errorf("bench: custom block: %w", err)
@@ -104,7 +93,7 @@ func Custom(ctx context.Context, o CustomOptions, w io.Writer) error {
 		if err != nil {
 			return err
 		}
-		err = os.WriteFile(filepath.Join(dir, "custom.go"), HandoverSource(o.Bits), 0o644)
+		err = os.WriteFile(filepath.Join(dir, "custom.go"), CombinerSource(o.Bits), 0o644)
 		var r CustomResult
 		if err == nil {
 			r, err = p.Run(ctx, o, dir)
@@ -147,7 +136,7 @@ func tallyRun(ctx context.Context, o CustomOptions, dir string, h *isolate.Hando
 	var run *result.Run
 	start := time.Now()
 	seen := func() { once.Do(func() { first = time.Since(start) }) }
-	cfg := isolate.Config{Exe: o.Exe, Handover: h, Host: host.Config{Workers: o.Workers, Quiet: true, Log: io.Discard,
+	cfg := isolate.Config{Exe: o.Exe, Handover: h, Host: host.Config{Workers: o.Workers, Quiet: true, Log: io.Discard, Stdout: io.Discard,
 		OnProgress: func(progress.Point, *stop.Progress) { seen() },
 		OnPoint:    func(*result.Run, int) { seen() },
 		Done:       func(r *result.Run) error { run = r; return nil }}}
@@ -191,7 +180,7 @@ func goBuildRun(ctx context.Context, o CustomOptions, dir string) (CustomResult,
 	r := CustomResult{Wall: time.Since(start), Note: fmt.Sprintf("(go build %.1f s, run %.1f s)", built.Seconds(), (time.Since(start) - built).Seconds())}
 	// Built with -trimpath, the program names its script main.go: its outputs are in main/.
 	r.Table, err = os.ReadFile(filepath.Join(dir, "main", "table.csv"))
-	r.Bits = o.Bits * 6
+	r.Bits = o.Bits * int64(len(CombinerCases))
 	return r, err
 }
 
