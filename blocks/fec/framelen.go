@@ -30,8 +30,9 @@ func (e *LDPCEncoder) FrameOut(n int) int { return n / e.code.K * (e.code.N - e.
 // FrameUnit is K: the encoder takes whole K-bit messages.
 func (e *PolarEncoder) FrameUnit() int { return e.code.K }
 
-// FrameOut is N coded bits per K message bits.
-func (e *PolarEncoder) FrameOut(n int) int { return n / e.code.K * e.code.N }
+// FrameOut is the Sent coded bits per K message bits: N, or fewer when punctured or
+// shortened.
+func (e *PolarEncoder) FrameOut(n int) int { return n / e.code.K * e.code.Sent }
 
 // FrameUnit is 1: the encoder takes any number of bits.
 func (e *ConvEncoder) FrameUnit() int { return 1 }

@@ -53,6 +53,16 @@ func TestFitRoundsUpToWholeUnits(t *testing.T) {
 			c, m := fec.LDPCPEG(1024, 512, 3), modem.QAM(16)
 			return link.Chain(source.Random(n), c.Encoder(), m.Mod(), channel.AWGN(6), m.Demod().LogMAP(), c.Decoder())
 		}, 1000, 1024},
+		// A punctured polar word sends 601 bits: QPSK needs two words, 600 source bits.
+		{"polar punctured (601, 300), QPSK", func(n int) *link.Link {
+			c, m := fec.PolarPunctured(601, 300), modem.QPSK()
+			return link.Chain(source.Random(n), c.Encoder(), m.Mod(), channel.AWGN(4), m.Demod(), c.Decoder())
+		}, 300, 600},
+		// A shortened word sends 768 bits, whole 8-PSK symbols: no rounding.
+		{"polar shortened (768, 384), 8-PSK", func(n int) *link.Link {
+			c, m := fec.PolarShortened(768, 384), modem.PSK(8)
+			return link.Chain(source.Random(n), c.Encoder(), m.Mod(), channel.AWGN(8), m.Demod(), c.Decoder())
+		}, 384, 384},
 	} {
 		l := c.build(c.from)
 		from, to, why := l.Fit()
