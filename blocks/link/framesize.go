@@ -2,6 +2,7 @@ package link
 
 import (
 	"fmt"
+	"slices"
 	"strings"
 )
 
@@ -36,47 +37,74 @@ const maxFit = 1 << 16
 // run then meets the block's own message). It returns the old and new lengths (equal when
 // nothing changed; 0 and 0 for a source of unknown length) and the blocks that asked for
 // whole units, as text for the user.
-func (l *Link) Fit() (from, to int, why string) {
-	if len(l.blocks) == 0 {
-		return 0, 0, ""
+func (l *Link) Fit() (from, to int, why string) { return FitTogether(l) }
+
+// FitTogether is Fit for links that must send the same source bits in a frame (the variants of
+// a paired comparison): the least length at least the script's that every one of them takes
+// in whole units, set on all. Links whose sources differ in length, or any of which is Exact
+// or of unknown length, are left as they were.
+func FitTogether(links ...*Link) (from, to int, why string) {
+	var sources []Sized
+	for i, l := range links {
+		if len(l.blocks) == 0 {
+			return 0, 0, ""
+		}
+		s, ok := l.blocks[0].(Sized)
+		if !ok {
+			return 0, 0, ""
+		}
+		if i == 0 {
+			from = s.FrameLen()
+		}
+		if s.FrameLenExact() || s.FrameLen() != from {
+			return from, from, ""
+		}
+		sources = append(sources, s)
 	}
-	s, ok := l.blocks[0].(Sized)
-	if !ok {
-		return 0, 0, ""
-	}
-	from = s.FrameLen()
-	if s.FrameLenExact() {
-		return from, from, ""
-	}
-	var units []string
-	fits := func(n int, note bool) bool {
-		for _, b := range l.blocks[1:] {
-			f, ok := b.(Framed)
-			if !ok {
-				return true
-			}
-			u := f.FrameUnit()
-			if note && u > 1 {
-				units = append(units, fmt.Sprintf("%s takes %d bits at a time", NameOf(b), u))
-			}
-			if u > 1 && n%u != 0 {
+	all := func(n int, units *[]string) bool {
+		for _, l := range links {
+			if !l.takes(n, units) {
 				return false
-			}
-			if n = f.FrameOut(n); n < 0 {
-				return true
 			}
 		}
 		return true
 	}
-	if from < 1 || fits(from, false) {
+	if from < 1 || all(from, nil) {
 		return from, from, ""
 	}
 	for n := from + 1; n <= from+maxFit; n++ {
-		if fits(n, false) {
-			fits(n, true)
-			s.SetFrameLen(n)
+		if all(n, nil) {
+			var units []string
+			all(n, &units)
+			for _, s := range sources {
+				s.SetFrameLen(n)
+			}
 			return from, n, strings.Join(units, ", ")
 		}
 	}
 	return from, from, ""
+}
+
+// takes reports whether every block after the source that Fit knows takes n source bits in
+// whole units; units, when not nil, gets the blocks that take more than one bit at a time.
+func (l *Link) takes(n int, units *[]string) bool {
+	for _, b := range l.blocks[1:] {
+		f, ok := b.(Framed)
+		if !ok {
+			return true
+		}
+		u := f.FrameUnit()
+		if units != nil && u > 1 {
+			if w := fmt.Sprintf("%s takes %d bits at a time", NameOf(b), u); !slices.Contains(*units, w) {
+				*units = append(*units, w)
+			}
+		}
+		if u > 1 && n%u != 0 {
+			return false
+		}
+		if n = f.FrameOut(n); n < 0 {
+			return true
+		}
+	}
+	return true
 }

@@ -138,3 +138,30 @@ func TestVariantsSettledPerComparison(t *testing.T) {
 		t.Fatalf("stop %q; hot %+v; same %+v", r.Points[0].Stop, hot, same)
 	}
 }
+
+// Variants that must send the same bits are rounded to one frame length together: QPSK and
+// 8-PSK from source.Random(1000) both run 1002-bit frames (3 | 1002 and 2 | 1002: common
+// practice, no source), where rounding each on its own would give 1000 and 1002 and the pair
+// would be refused.
+func TestVariantsRoundedTogether(t *testing.T) {
+	x := testExperiment("rounded", &runner.Options{Quiet: true, Workers: 1})
+	x.Sweep("ebn0_db", 6)
+	x.Variants("modem", "QPSK", "8-PSK")
+	x.Link(func(p Point) *link.Link {
+		m := modem.QPSK()
+		if p.Label("modem") == "8-PSK" {
+			m = modem.PSK(8)
+		}
+		return link.Chain(source.Random(1000), m.Mod(), channel.AWGN(p.Get("ebn0_db")), m.Demod())
+	})
+	x.Stop(stop.Frames(10))
+	r, err := x.execute()
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, p := range r.Points {
+		if p.Taps[0].Trials != 10*1002 {
+			t.Errorf("%v: %d bits in 10 frames, want 10 frames of 1002", p.Values, p.Taps[0].Trials)
+		}
+	}
+}

@@ -23,6 +23,7 @@ func init() {
 		"Decoder":         reflect.ValueOf(link.Decoder),
 		"Detector":        reflect.ValueOf(link.Detector),
 		"EstimatorNamed":  reflect.ValueOf(link.EstimatorNamed),
+		"FitTogether":     reflect.ValueOf(link.FitTogether),
 		"Func":            reflect.ValueOf(link.Func),
 		"GaussianNoise":   reflect.ValueOf(link.GaussianNoise),
 		"GrowBytes":       reflect.ValueOf(link.GrowBytes),

@@ -2,6 +2,7 @@ package runner
 
 import (
 	"fmt"
+	"slices"
 	"strings"
 	"sync"
 
@@ -19,12 +20,13 @@ type frameFit struct {
 	notes []string
 }
 
-// fit rounds l's frame length and tells the user the first time a change is made.
-func (x *experiment) fit(l *link.Link, pt Point) {
-	if l == nil {
+// fit rounds the frame length of l (of the links of a paired group together, which must send
+// the same bits) and tells the user the first time a change is made.
+func (x *experiment) fit(pt Point, ls ...*link.Link) {
+	if len(ls) == 0 || slices.Contains(ls, nil) {
 		return
 	}
-	from, to, why := l.Fit()
+	from, to, why := link.FitTogether(ls...)
 	if from == to {
 		return
 	}

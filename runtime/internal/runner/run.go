@@ -262,7 +262,7 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		if l == nil {
 			return nil, fmt.Errorf("sim: the Link function returned nil for point %d (%s)", pt.Index, pt.text())
 		}
-		x.fit(l, pt)
+		x.fit(pt, l)
 		x.estimateOn(l)
 		return l, nil
 	}

@@ -36,7 +36,7 @@ func (x *experiment) scatter(run *result.Run, points []Point, seed uint64) error
 		return fmt.Errorf("sim.Scatter: no point of the sweep has the values %v", x.ScatterAt)
 	}
 	l := x.Build(*pt)
-	x.fit(l, *pt)
+	x.fit(*pt, l)
 	var f link.Frame
 	counts := make([]link.Tally, len(l.Taps()))
 	if err := l.Run(&f, seed, pt.Index, 0, counts); err != nil {

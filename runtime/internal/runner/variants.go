@@ -175,9 +175,9 @@ func (x *experiment) runGroup(ctx context.Context, g group, rules []stop.Rule, s
 			if l.Estimator() != link.Count {
 				return nil, fmt.Errorf("sim.Variants: the link of %s has an estimator: a paired comparison counts errors", pt.text())
 			}
-			x.fit(l, pt)
 			ls = append(ls, l)
 		}
+		x.fit(g.rows[0], ls...) // the variants send the same bits: one length for all
 		return link.Paired(names, ls...), nil
 	}
 	probe, err := build()
