@@ -102,8 +102,13 @@ func cacheKey(tool string, src []byte, tc *toolchain, mod *module) string {
 // build compiles the script into bin: a copy of its bytes in a folder of its own, built with
 // tally's module as the main module, into a temporary file renamed into place.
 func build(ctx context.Context, r Request, tc *toolchain, mod *module, cache, key, bin string) error {
-	work := filepath.Join(cache, "work", key)
-	if err := os.MkdirAll(work, 0o755); err != nil {
+	// A folder of this build's own: two builds of the same bytes (two tally processes, a watch
+	// rerun beside a cancelled build) must not write or remove each other's files.
+	if err := os.MkdirAll(filepath.Join(cache, "work"), 0o755); err != nil {
+		return &Unavailable{Why: fmt.Sprintf("cannot make the build folder in the cache %s: %v", cache, err)}
+	}
+	work, err := os.MkdirTemp(filepath.Join(cache, "work"), key+"-")
+	if err != nil {
 		return &Unavailable{Why: fmt.Sprintf("cannot make the build folder in the cache %s: %v", cache, err)}
 	}
 	defer os.RemoveAll(work)
@@ -114,8 +119,7 @@ func build(ctx context.Context, r Request, tc *toolchain, mod *module, cache, ke
 	if err := os.MkdirAll(filepath.Dir(bin), 0o755); err != nil {
 		return &Unavailable{Why: fmt.Sprintf("cannot write into the cache %s: %v", cache, err)}
 	}
-	tmp := filepath.Join(filepath.Dir(bin), "."+key+".tmp-"+fmt.Sprint(os.Getpid()))
-	defer os.Remove(tmp)
+	tmp := filepath.Join(work, "program") // renamed into place: the cache and work share a file system
 	cmd := lowPriority(ctx, tc.gocmd, "build", "-trimpath", "-o", tmp, file)
 	cmd.Dir = mod.dir
 	cmd.Env = tc.env()
@@ -125,7 +129,7 @@ func build(ctx context.Context, r Request, tc *toolchain, mod *module, cache, ke
 		if ctx.Err() != nil {
 			return ctx.Err()
 		}
-		return &Unavailable{Why: buildError(out.String(), file, r.Script)}
+		return &Unavailable{Why: buildError(out.String(), file, mod.dir, r.Script)}
 	}
 	if err := os.Rename(tmp, bin); err != nil {
 		return &Unavailable{Why: fmt.Sprintf("cannot write into the cache %s: %v", cache, err)}
@@ -135,9 +139,9 @@ func build(ctx context.Context, r Request, tc *toolchain, mod *module, cache, ke
 
 var offlineRE = regexp.MustCompile(`(?m)^.*?([a-z0-9.\-]+\.[a-z]+/[^@\s:]+)@(v[^:\s]+).*(GOPROXY=off|module lookup disabled)`)
 
-// buildError is a sentence for the go command's complaint: the compiler's first message at the
-// script's position, or the module the offline cache lacks.
-func buildError(out, file, script string) string {
+// buildError is a sentence for the go command's complaint (run in dir on file): the compiler's
+// first message at the script's position, or the module the offline cache lacks.
+func buildError(out, file, dir, script string) string {
 	if m := offlineRE.FindStringSubmatch(out); m != nil {
 		return fmt.Sprintf("the Go module cache lacks %s %s, which tally needs (the build runs offline)", m[1], m[2])
 	}
@@ -154,6 +158,9 @@ func buildError(out, file, script string) string {
 		}
 		l = strings.ReplaceAll(l, "command-line-arguments/main.go", script)
 		l = strings.ReplaceAll(l, file, script)
+		if rel, err := filepath.Rel(dir, file); err == nil {
+			l = strings.ReplaceAll(l, rel, script) // the go command names files relative to its folder when shorter
+		}
 		l = strings.ReplaceAll(l, "./main.go", script)
 		return "the compiler refused the script: " + l
 	}

@@ -118,6 +118,7 @@ func (hd *handing) building() bool {
 func (hd *handing) end() {
 	if hd != nil && hd.cancel != nil {
 		hd.cancel()
+		<-hd.ready // the go command's processes killed and the build's folder removed before tally ends
 	}
 }
 

@@ -368,7 +368,7 @@ loop:
 		}
 		return p.failure(fmt.Sprintf("the run used %s of memory, over its limit of %s (-memory raises it): a frame, a table or a slice of the script too large?", Size(held), Size(p.c.Memory))), false
 	}
-	if end != nil && end.Interrupted && end.Handover {
+	if end != nil && end.Interrupted && end.Handover && !stopped { // Ctrl-C after the request: the run stops
 		return nil, true
 	}
 	if end == nil {
