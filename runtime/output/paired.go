@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -32,6 +33,7 @@ func pairedSummary(b *bytes.Buffer, r *result.Run) {
 	}
 	b.WriteString("## Paired comparison\n\n")
 	var methods []string
+	axis := variantsAxis(r)
 	n := 0
 	for _, p := range r.Points {
 		c := p.Paired
@@ -39,9 +41,9 @@ func pairedSummary(b *bytes.Buffer, r *result.Run) {
 			continue
 		}
 		var at []string
-		for i, n := range r.Params {
-			if r.Value(p, i) != c.Variant {
-				at = append(at, n+" "+r.Value(p, i))
+		for i, name := range r.Params {
+			if i != axis {
+				at = append(at, name+" "+r.Value(p, i))
 			}
 		}
 		bits := int64(0)
@@ -53,7 +55,7 @@ func pairedSummary(b *bytes.Buffer, r *result.Run) {
 			g3(c.Diff), g3(c.DiffLow), g3(c.DiffHigh), g3(c.Ratio), g3(c.RatioLow), g3(c.RatioHigh),
 			bits, c.OnlyVariant, md(c.Variant), c.OnlyRef, md(c.Against), narrower(c.Narrower))
 		n++
-		if c.Method != "" && !contains(methods, c.Method) {
+		if c.Method != "" && !slices.Contains(methods, c.Method) {
 			methods = append(methods, c.Method)
 		}
 	}
@@ -90,11 +92,20 @@ func g3(v float64) string {
 	return strconv.FormatFloat(v, 'g', 3, 64)
 }
 
-func contains(s []string, v string) bool {
-	for _, x := range s {
-		if x == v {
-			return true
+// variantsAxis is the index of the parameter the variants are the values of: the one whose
+// value is the variant's name at every compared point (-1 if none is).
+func variantsAxis(r *result.Run) int {
+	for i := range r.Params {
+		all := true
+		for _, p := range r.Points {
+			if p.Paired != nil && r.Value(p, i) != p.Paired.Variant {
+				all = false
+				break
+			}
+		}
+		if all {
+			return i
 		}
 	}
-	return false
+	return -1
 }
