@@ -79,7 +79,7 @@ type Comparison struct {
 
 	P     float64 // p-value of "no difference", valid at any stopping time
 	Shown bool    // the difference is shown at the confidence level
-	Same  bool    // every frame held the same errors in A as in B (paired only)
+	Same  bool    // every frame held as many errors in A as in B (paired only)
 
 	Verdict string // in words, with A and B as the names (see VerdictFor)
 	Method  string // the method, as recorded in run.json
@@ -393,7 +393,7 @@ func (c Comparison) VerdictFor(a, b string) string {
 	case c.Frames < MinPairedFrames && !c.Same && !c.Shown:
 		return fmt.Sprintf("not judged yet (%d of %d frames)", c.Frames, MinPairedFrames)
 	case c.Same:
-		return fmt.Sprintf("no difference shown: the same errors in each of the %d frames", c.Frames)
+		return fmt.Sprintf("no difference shown: the same number of errors in each of the %d frames", c.Frames)
 	case c.Shown && c.Diff < 0:
 		return fmt.Sprintf("%s makes fewer errors than %s (%s)", b, a, FormatP(c.P))
 	case c.Shown && c.Diff > 0:

@@ -215,7 +215,7 @@ func TestPairedIdenticalFrames(t *testing.T) {
 	if !(c.RatioLow < 1 && c.RatioHigh > 1) {
 		t.Errorf("ratio interval [%g, %g] must hold 1 with room", c.RatioLow, c.RatioHigh)
 	}
-	if !strings.Contains(c.Verdict, "same errors in each of the 400 frames") {
+	if !strings.Contains(c.Verdict, "the same number of errors in each of the 400 frames") {
 		t.Errorf("verdict %q", c.Verdict)
 	}
 	// The unpaired view of the same counts knows nothing of the pairing.

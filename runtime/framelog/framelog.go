@@ -47,8 +47,11 @@ func (l *Log) stride() int { return 1 + 2*l.Taps }
 func (l *Log) Usable() bool { return l != nil && !l.Dropped }
 
 // Add appends one frame's counts (one Tally per tap, as the engine commits them).
-func (l *Log) Add(c []link.Tally) {
-	if l.Dropped {
+func (l *Log) Add(c []link.Tally) { l.AddN(c, 1) }
+
+// AddN appends n frames with the same counts c (n ≥ 1): one run of the log, however long.
+func (l *Log) AddN(c []link.Tally, n int64) {
+	if l.Dropped || n < 1 {
 		return
 	}
 	if len(c) != l.Taps {
@@ -61,7 +64,7 @@ func (l *Log) Add(c []link.Tally) {
 			return
 		}
 	}
-	l.Frames++
+	l.Frames += n
 	l.starts = nil
 	s := l.stride()
 	if k := len(l.Runs) - s; k >= 0 {
@@ -73,7 +76,7 @@ func (l *Log) Add(c []link.Tally) {
 			}
 		}
 		if same {
-			l.Runs[k]++
+			l.Runs[k] += n
 			return
 		}
 	}
@@ -81,7 +84,7 @@ func (l *Log) Add(c []link.Tally) {
 		l.drop()
 		return
 	}
-	l.Runs = append(l.Runs, 1)
+	l.Runs = append(l.Runs, n)
 	for _, t := range c {
 		l.Runs = append(l.Runs, t.Trials, t.Errors)
 	}

@@ -5,6 +5,7 @@ import (
 	"bytes"
 	"math/rand/v2"
 	"reflect"
+	"slices"
 	"testing"
 
 	"tally/blocks/link"
@@ -142,5 +143,23 @@ func TestLogBounded(t *testing.T) {
 	}
 	if l.Usable() || len(l.Runs) != 0 {
 		t.Errorf("a log of %d frames that all differ kept %d values", MaxValues, len(l.Runs))
+	}
+}
+
+// AddN(c, n) keeps the same log as n calls of Add(c).
+func TestAddNIsRepeatedAdd(t *testing.T) {
+	a, b := New(1), New(1)
+	for _, r := range []struct {
+		errors int64
+		n      int64
+	}{{0, 5}, {0, 3}, {2, 1}, {1, 4}, {1, 2}} {
+		c := []link.Tally{{Trials: 100, Errors: r.errors}}
+		a.AddN(c, r.n)
+		for range r.n {
+			b.Add(c)
+		}
+	}
+	if a.Frames != b.Frames || !slices.Equal(a.Runs, b.Runs) {
+		t.Errorf("AddN: %d frames %v; Add: %d frames %v", a.Frames, a.Runs, b.Frames, b.Runs)
 	}
 }

@@ -70,7 +70,7 @@ func TestVariantsCompareOnSameFrames(t *testing.T) {
 	}
 	c := r.Points[1].Paired
 	if r.Points[1].Stop != "bits" || c.Shown || c.OnlyRef != 0 || c.OnlyVariant != 0 || c.Diff != 0 ||
-		!strings.Contains(c.Verdict, "the same errors in each of the 200 frames") {
+		!strings.Contains(c.Verdict, "the same number of errors in each of the 200 frames") {
 		t.Fatalf("identical variants: stop %q, %+v", r.Points[1].Stop, c)
 	}
 	csv := string(output.Table(r))
@@ -163,5 +163,19 @@ func TestVariantsRoundedTogether(t *testing.T) {
 		if p.Taps[0].Trials != 10*1002 {
 			t.Errorf("%v: %d bits in 10 frames, want 10 frames of 1002", p.Values, p.Taps[0].Trials)
 		}
+	}
+}
+
+// A paired run checks the taps its declarations name as a plain run does: a misspelt Show is
+// refused at the first compared point.
+func TestVariantsCheckNamedTaps(t *testing.T) {
+	x := testExperiment("named", &runner.Options{Quiet: true, Workers: 1})
+	x.Sweep("ebn0_db", 3)
+	x.Variants("rx", "ref", "hot")
+	x.Link(twoReceivers)
+	x.Stop(stop.Frames(5))
+	x.Show("paylod")
+	if _, err := x.execute(); err == nil || !strings.Contains(err.Error(), `sim.Show: the link counts no tap "paylod"`) {
+		t.Fatalf("err %v: want the misspelt tap refused", err)
 	}
 }

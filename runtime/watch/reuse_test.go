@@ -311,7 +311,7 @@ func main() {
 	write(t, exp, script("1e5", "2.5"))
 	e = h.wait(Finished, exp)
 	got = changesOf(e)
-	if !strings.Contains(got, "2 of 4 points: same link and seed") && !strings.Contains(got, "the same errors in every frame") {
+	if !strings.Contains(got, "2 of 4 points: same link and seed") && !strings.Contains(got, "the same number of errors in every frame") {
 		t.Errorf("the reference's rows not summed up as unchanged:\n%s", got)
 	}
 	if strings.Count(got, "  CHANGED, ") != 2 || strings.Count(got, "(paired, ") != 2 {

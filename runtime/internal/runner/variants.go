@@ -109,10 +109,20 @@ func comparisonRule(r stop.Rule) bool {
 // runGroups runs every group and adds the rows to run in grid order as they become complete.
 func (x *experiment) runGroups(ctx context.Context, run *result.Run, points []Point, rules []stop.Rule, seed uint64, workers int) error {
 	rows := make([]*result.Point, len(points))
-	flush := func() {
+	checked := false
+	flush := func() error {
 		for len(run.Points) < len(rows) && rows[len(run.Points)] != nil {
 			rp := *rows[len(run.Points)]
 			pt := points[len(run.Points)]
+			if !checked && rp.Stop != engine.Interrupted && rp.Stop != "skipped" {
+				// As the plain path does with its first point (run.go): a tap Show or a rule
+				// names that the links do not count.
+				if err := x.checkShown(rp); err != nil {
+					return err
+				}
+				x.warnNamed(rp)
+				checked = true
+			}
 			run.Taps = unionTaps(run.Taps, rp.Taps)
 			run.Points = append(run.Points, rp)
 			if pt.Index >= x.opts.Reported { // a run handed over reports only what is new
@@ -125,6 +135,7 @@ func (x *experiment) runGroups(ctx context.Context, run *result.Run, points []Po
 				x.opts.OnPoint(run, len(points))
 			}
 		}
+		return nil
 	}
 	for _, g := range x.groups(points) {
 		rps, err := x.runGroup(ctx, g, rules, seed, workers)
@@ -146,7 +157,9 @@ func (x *experiment) runGroups(ctx context.Context, run *result.Run, points []Po
 				}
 			}
 		}
-		flush()
+		if err := flush(); err != nil {
+			return err
+		}
 		if run.Interrupted {
 			break
 		}
@@ -202,7 +215,7 @@ func (x *experiment) runGroup(ctx context.Context, g group, rules []stop.Rule, s
 	if h := x.opts.handAtPoint(ref.Index); h != nil {
 		spec.Observers = append(spec.Observers, h)
 	}
-	lp := longrun.Point{Index: ref.Index, Values: ref.Values, Label: spec.Label}
+	lp := longrun.Point{Index: ref.Index, Values: ref.Values, Label: spec.Label, Fingerprint: fp}
 	out, err := x.long.Run(lp, spec, func(s engine.Spec) (engine.Outcome, error) { return x.runEngine(ctx, ref, rules, s) })
 	if err != nil {
 		return nil, err
@@ -265,9 +278,7 @@ func (lay layout) variantLog(l *framelog.Log, v int) *framelog.Log {
 		for i := range c {
 			c[i] = link.Tally{Trials: counts[2*(s+i)], Errors: counts[2*(s+i)+1]}
 		}
-		for range count {
-			out.Add(c)
-		}
+		out.AddN(c, count)
 	})
 	return out
 }
