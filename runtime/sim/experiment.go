@@ -183,8 +183,8 @@ func (x *Experiment) Seed(seed uint64) *Experiment {
 
 // StopSweep sets rules that end or thin each curve along the x axis: stop.Floor ends a curve
 // after its first point shown below a floor BER, stop.Budget skips points predicted to need
-// more bits than a cap. Skipped points stay in the table with stop "skipped" and the reason in
-// run.json.
+// more bits than a cap; each judges the BER unless its Tap names another. Skipped points stay
+// in the table with stop "skipped" and the reason in run.json.
 func (x *Experiment) StopSweep(rules ...stop.SweepRule) *Experiment {
 	for _, r := range rules {
 		if r == nil {

@@ -22,6 +22,7 @@ func (x *Experiment) Show(taps ...string) *Experiment {
 	if len(taps) == 0 {
 		runner.Fail(fmt.Errorf("sim.Show: name a tap to show (\"ber\", \"fer\", \"pre\" or one of the link's own)"))
 	}
+	at := x.opts.Here()
 	for _, t := range taps {
 		if !isColumnName(t) {
 			runner.Fail(fmt.Errorf("sim.Show: tap name %q must be letters, digits and _ (the names the link's taps have)", t))
@@ -30,7 +31,7 @@ func (x *Experiment) Show(taps ...string) *Experiment {
 			continue
 		}
 		x.spec.Show = append(x.spec.Show, t)
+		x.spec.NameTap("sim.Show", at, t)
 	}
-	x.spec.ShowAt = x.opts.Here()
 	return x
 }

@@ -93,17 +93,29 @@ func (x *experiment) shownTaps(rules []stop.Rule) []string {
 // misspelt name would otherwise show the BER without a word). The pre-decoder tap is left to
 // the end of the run, since an uncoded first curve lacks it.
 func (x *experiment) checkShown(rp result.Point) error {
-	for _, name := range x.Show {
-		if name == link.TapPre || slices.ContainsFunc(rp.Taps, func(t result.Tap) bool { return t.Name == name }) {
-			continue
+	for _, n := range x.Named {
+		if n.What == "sim.Show" && !counts(rp, n.Tap) {
+			return &Failure{Pos: n.At, Err: fmt.Errorf("sim.Show: the link counts no tap %q (it counts %s)", n.Tap, strings.Join(counted(rp), ", "))}
 		}
-		var have []string
-		for _, t := range rp.Taps {
-			have = append(have, t.Name)
-		}
-		return &Failure{Pos: x.ShowAt, Err: fmt.Errorf("sim.Show: the link counts no tap %q (it counts %s)", name, strings.Join(have, ", "))}
 	}
 	return nil
+}
+
+// counts reports whether the point's link counts tap (the pre-decoder tap always, see
+// checkShown).
+func counts(rp result.Point, tap string) bool {
+	return tap == link.TapPre || slices.ContainsFunc(rp.Taps, func(t result.Tap) bool { return t.Name == tap && !t.Absent })
+}
+
+// counted are the taps the point's link counts.
+func counted(rp result.Point) []string {
+	var have []string
+	for _, t := range rp.Taps {
+		if !t.Absent {
+			have = append(have, t.Name)
+		}
+	}
+	return have
 }
 
 // warnNamed says at once, on the log, when the first point's link counts no tap a declaration
@@ -112,17 +124,10 @@ func (x *experiment) checkShown(rp result.Point) error {
 // the names no point counted into the outputs.
 func (x *experiment) warnNamed(rp result.Point) {
 	for _, n := range x.Named {
-		if n.Tap == link.TapPre || slices.ContainsFunc(rp.Taps, func(t result.Tap) bool { return t.Name == n.Tap && !t.Absent }) {
-			continue
+		if n.What != "sim.Show" && !counts(rp, n.Tap) {
+			x.opts.logf("note: %s: %s names the tap %q, which the first point's link does not count (it counts %s): a rule on it is never met there\n",
+				n.At, n.What, n.Tap, strings.Join(counted(rp), ", "))
 		}
-		var have []string
-		for _, t := range rp.Taps {
-			if !t.Absent {
-				have = append(have, t.Name)
-			}
-		}
-		x.opts.logf("note: %s: %s names the tap %q, which the first point's link does not count (it counts %s): a rule on it is never met there\n",
-			n.At, n.What, n.Tap, strings.Join(have, ", "))
 	}
 }
 

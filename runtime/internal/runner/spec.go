@@ -30,13 +30,12 @@ type Spec struct {
 	Inputs       []result.Input
 	AutoEstimate bool
 	// Show are the taps the plot and README.md show, the first also the progress line's
-	// (sim.Experiment.Show); empty: the taps the rules and targets judge (shownTaps). ShowAt
-	// is the script position of the Show call, for a tap the link does not count.
-	Show   []string
-	ShowAt string
-	// Named are the taps the script's declarations name (a stop rule's Tap, a sweep rule's,
-	// TargetOn's) with where each was declared: a tap the links do not count is said (warnNamed,
-	// namedNotes), as a misspelt name would otherwise be judged on nothing and never met.
+	// (sim.Experiment.Show); empty: the taps the rules and targets judge (shownTaps).
+	Show []string
+	// Named are the taps the script's declarations name (Show's, a stop rule's Tap, a sweep
+	// rule's, TargetOn's) with where each was declared: a tap the first point's link does not
+	// count is refused at Show (checkShown) and said of the others (warnNamed, namedNotes), as a
+	// misspelt name would otherwise be judged on nothing and never met.
 	Named []NamedTap
 }
 

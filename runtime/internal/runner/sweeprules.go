@@ -1,7 +1,6 @@
 package runner
 
 import (
-	"fmt"
 	"slices"
 
 	"tally/blocks/link"
@@ -9,25 +8,6 @@ import (
 	"tally/blocks/stop"
 	"tally/runtime/result"
 )
-
-// StopSweep sets rules that end or thin each curve along the x axis: stop.Floor ends a curve
-// after its first point shown below a floor BER, stop.Budget skips points predicted to need
-// more bits than a cap; each judges the BER tap unless its Tap names another. Skipped points stay in the table with stop "skipped" and the reason in
-// run.json.
-func (x *experiment) StopSweep(rules ...stop.SweepRule) *experiment {
-	for _, r := range rules {
-		if r == nil {
-			Fail(fmt.Errorf("sim.StopSweep: a rule is nil"))
-		}
-		if c, ok := r.(link.Checked); ok {
-			if err := c.Err(); err != nil {
-				Fail(err)
-			}
-		}
-	}
-	x.SweepRules = append(x.SweepRules, rules...)
-	return x
-}
 
 // skip asks the sweep rules about pt, given the finished points of its curve.
 func (x *experiment) skip(run *result.Run, pt Point) (bool, string) {
