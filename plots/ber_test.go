@@ -330,3 +330,13 @@ func TestBERUnnamedTheoryLabel(t *testing.T) {
 		t.Errorf("legend texts %q: want a plain \"theory\"", texts)
 	}
 }
+
+// A crossing that rounds to zero is labelled without a sign on the plot as in README.md
+// (result.AxisValue; common practice, no source).
+func TestCrossTextUnsigned(t *testing.T) {
+	for x, want := range map[float64]string{-0.003: "0.00 dB", 9.555: "9.55 dB", -1.2: "-1.20 dB"} {
+		if got := crossText(x, "dB"); got != want {
+			t.Errorf("crossText(%g) = %q, want %q", x, got, want)
+		}
+	}
+}

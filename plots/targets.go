@@ -136,15 +136,14 @@ func rateText(v float64) string {
 // crossText is a crossing's position in the axis's unit: two decimals in dB, else three
 // significant digits.
 func crossText(x float64, unit string) string {
+	v := result.AxisValue(x, unit)
 	switch unit {
-	case "dB", "dB-Hz":
-		return fmt.Sprintf("%.2f %s", x, unit)
 	case "":
-		return fmt.Sprintf("%.3g", x)
+		return v
 	case "°":
-		return fmt.Sprintf("%.3g°", x)
+		return v + "°"
 	}
-	return fmt.Sprintf("%.3g %s", x, unit)
+	return v + " " + unit
 }
 
 // rates are the levels' rates, so the y range holds every line.

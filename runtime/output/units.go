@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"tally/runtime/result"
 
 	"tally/plots"
 )
@@ -52,26 +53,8 @@ func amount(v float64, unit string) string {
 	return s + " " + unit
 }
 
-// axisValue writes a crossing's position on the axis: two decimals in dB, else three
-// significant digits.
-func axisValue(v float64, unit string) string {
-	if math.IsInf(v, 0) || math.IsNaN(v) {
-		return "open"
-	}
-	if unit == "dB" || unit == "dB-Hz" {
-		return unsigned(fmt.Sprintf("%.2f", v))
-	}
-	return unsigned(fmt.Sprintf("%.3g", v))
-}
-
-// unsigned drops the sign of a number that rounded to zero: "-0.00" reads as a loss where
-// there is none.
-func unsigned(s string) string {
-	if rest, ok := strings.CutPrefix(s, "-"); ok && strings.Trim(rest, "0.") == "" {
-		return rest
-	}
-	return s
-}
+// axisValue is a value of the swept axis as the outputs print it (result.AxisValue).
+func axisValue(v float64, unit string) string { return result.AxisValue(v, unit) }
 
 // distance words how far this curve's crossing lies from another's (than): d is this
 // crossing minus the other along the axis. On a signal-to-noise axis: "needs 0.42 dB more

@@ -22,9 +22,12 @@ func TestNoSignedZero(t *testing.T) {
 	if strings.Contains(s, "-0.") || strings.Contains(s, "−0") {
 		t.Errorf("%q has a signed zero", s)
 	}
-	for in, want := range map[string]string{"-0.00": "0.00", "-0": "0", "-0.01": "-0.01", "-1e-05": "-1e-05", "0.00": "0.00"} {
-		if got := unsigned(in); got != want {
-			t.Errorf("unsigned(%q) = %q, want %q", in, got, want)
+	for _, c := range []struct {
+		v          float64
+		unit, want string
+	}{{-0.003, "dB", "0.00"}, {-0.0000001, "", "-1e-07"}, {-0.01, "dB", "-0.01"}, {0, "dB", "0.00"}, {-0.0004, "", "-0.0004"}} {
+		if got := result.AxisValue(c.v, c.unit); got != c.want {
+			t.Errorf("AxisValue(%g, %q) = %q, want %q", c.v, c.unit, got, c.want)
 		}
 	}
 }
