@@ -2,12 +2,9 @@ package isolate
 
 import (
 	"context"
-	"encoding/gob"
 	"errors"
 	"fmt"
 	"os"
-	"os/signal"
-	"runtime/debug"
 	"time"
 
 	"tally/blocks/stop"
@@ -23,10 +20,8 @@ const envChild = wire.EnvChild
 
 const protocol = wire.Protocol
 
-// MaxStack is the child's stack limit: endless recursion in a script fails in about a second
-// instead of after a gigabyte (the Go default). Interpreted calls are deep, but 64 MiB is still
-// tens of thousands of levels of a script's own recursion.
-const MaxStack = 32 << 20
+// MaxStack is the child's stack limit (wire.MaxStack).
+const MaxStack = wire.MaxStack
 
 // Child reports whether this process was started by Run as a child. Call it first thing in
 // main (and in TestMain of a test that starts children from its own binary), then Serve.
@@ -35,39 +30,12 @@ func Child() bool { return os.Getenv(envChild) != "" }
 // Serve is the child's side: it runs the job its parent sends and reports back. It returns the
 // process's exit code.
 func Serve() int {
-	if os.Getenv(envChild) != protocol {
-		fmt.Fprintf(os.Stderr, "tally: child of another version (protocol %q, this binary %q)\n", os.Getenv(envChild), protocol)
+	pipes, dec, logf, j, err := wire.Open()
+	if err != nil {
+		fmt.Fprintln(os.Stderr, "tally: child:", err)
 		return 2
 	}
-	os.Unsetenv(envChild) // a trusted script that starts tally starts a parent, not a child
-	out := os.NewFile(3, "reports")
-	ctl := os.NewFile(4, "control")
-	logf := os.NewFile(5, "log")
-	if out == nil || ctl == nil || logf == nil {
-		fmt.Fprintln(os.Stderr, "tally: child started without its pipes")
-		return 2
-	}
-	// Processes a trusted script starts must not hold the pipes open after the child ends.
-	for fd := 3; fd <= 5; fd++ {
-		closeOnExec(fd)
-	}
-	c := &child{wire.NewPipes(out)}
-	dec := gob.NewDecoder(ctl)
-	var j job
-	if err := dec.Decode(&j); err != nil {
-		fmt.Fprintln(os.Stderr, "tally: child: no job:", err)
-		return 2
-	}
-	// Ctrl-C reaches the parent, which stops the child by its control pipe; a terminal's
-	// signal to the whole group must not end the child before the parent decides.
-	signal.Ignore(os.Interrupt)
-	debug.SetMaxStack(MaxStack)
-	if j.Memory > 0 {
-		// The runtime collects harder as the heap nears the limit; WatchMemory ends the run
-		// when collecting no longer keeps it below.
-		debug.SetMemoryLimit(j.Memory)
-		go c.WatchMemory(j.Memory)
-	}
+	c := &child{pipes}
 	ctx, cancel := context.WithCancelCause(context.Background())
 	stop := func() { cancel(nil) }
 	defer stop()
@@ -111,7 +79,7 @@ func Serve() int {
 	if j.HandAt != nil {
 		cfg.HandAt, cfg.Handover = j.HandAt, func() { cancel(runner.ErrHandover) }
 	}
-	err := host.Run(ctx, j.Path, cfg)
+	err = host.Run(ctx, j.Path, cfg)
 	end := report{Kind: kindEnd}
 	var se *host.ScriptError
 	switch {
@@ -125,7 +93,7 @@ func Serve() int {
 		end.Err = err.Error()
 	}
 	c.Send(end)
-	out.Close()
+	c.Close()
 	// Goroutines the script started end with the process.
 	return 0
 }

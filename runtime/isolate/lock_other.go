@@ -8,5 +8,3 @@ import "os"
 func lockFile(path string) (*os.File, error) {
 	return os.OpenFile(path, os.O_RDWR|os.O_CREATE, 0o644)
 }
-
-func closeOnExec(fd int) {}

@@ -32,5 +32,3 @@ func lockFile(path string) (*os.File, error) {
 	}
 	return nil, errHeld
 }
-
-func closeOnExec(fd int) { syscall.CloseOnExec(fd) }

@@ -2,12 +2,9 @@ package runner
 
 import (
 	"context"
-	"encoding/gob"
 	"errors"
 	"fmt"
 	"os"
-	"os/signal"
-	"runtime/debug"
 
 	"tally/blocks/stop"
 	"tally/runtime/internal/wire"
@@ -34,37 +31,16 @@ type childPipes struct {
 // childOptions reads the job of a compiled run's process and makes its options; ok is false
 // when this process was not started so.
 func childOptions() (o *Options, ok bool) {
-	v := os.Getenv(wire.EnvChild)
-	if v == "" {
+	if os.Getenv(wire.EnvChild) == "" {
 		return nil, false
 	}
-	if v != wire.Protocol {
-		fmt.Fprintf(os.Stderr, "tally: compiled run of another version (protocol %q, this program %q)\n", v, wire.Protocol)
+	pipes, dec, logf, j, err := wire.Open()
+	if err != nil {
+		fmt.Fprintln(os.Stderr, "tally: compiled run:", err)
 		os.Exit(2)
 	}
-	os.Unsetenv(wire.EnvChild)
-	out, ctl, logf := os.NewFile(3, "reports"), os.NewFile(4, "control"), os.NewFile(5, "log")
-	if out == nil || ctl == nil || logf == nil {
-		fmt.Fprintln(os.Stderr, "tally: compiled run started without its pipes")
-		os.Exit(2)
-	}
-	for fd := 3; fd <= 5; fd++ {
-		closeOnExec(fd)
-	}
-	c := &childPipes{Pipes: wire.NewPipes(out)}
-	dec := gob.NewDecoder(ctl)
-	var j wire.Job
-	if err := dec.Decode(&j); err != nil {
-		fmt.Fprintln(os.Stderr, "tally: compiled run: no job:", err)
-		os.Exit(2)
-	}
-	signal.Ignore(os.Interrupt) // the parent stops the run by its pipe
+	c := &childPipes{Pipes: pipes}
 	adoptBuild(j.Build)
-	debug.SetMaxStack(32 << 20)
-	if j.Memory > 0 {
-		debug.SetMemoryLimit(j.Memory)
-		go c.WatchMemory(j.Memory)
-	}
 	ctx, cancel := context.WithCancel(context.Background())
 	go func() {
 		for {

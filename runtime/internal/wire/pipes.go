@@ -15,13 +15,22 @@ import (
 // (done, write) come back on Answers.
 type Pipes struct {
 	mu      sync.Mutex
+	out     io.Writer
 	enc     *gob.Encoder
 	Answers chan Reply
 }
 
 // NewPipes sends reports on out.
 func NewPipes(out io.Writer) *Pipes {
-	return &Pipes{enc: gob.NewEncoder(out), Answers: make(chan Reply)}
+	return &Pipes{out: out, enc: gob.NewEncoder(out), Answers: make(chan Reply)}
+}
+
+// Close closes the report pipe: the parent reads to its end.
+func (p *Pipes) Close() error {
+	if c, ok := p.out.(io.Closer); ok {
+		return c.Close()
+	}
+	return nil
 }
 
 // Send sends one report; a parent that stopped listening ends the process (exit 3).

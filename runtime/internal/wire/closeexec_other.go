@@ -1,5 +1,5 @@
 //go:build !unix
 
-package runner
+package wire
 
 func closeOnExec(fd int) {}
