@@ -42,6 +42,10 @@ func TestCurveHelpers(t *testing.T) {
 	}
 }
 
+// The printed values are the formulas the helpers wrap: Gray 16-QAM and 4-PAM at 10 dB,
+// (3/8)·erfc(√(0.4·Eb/N0)) = (3/8)·erfc(2) = 1.754e-3 (Proakis, Digital Communications, 4th ed.,
+// 2001, eq. 5.2-79 with the Gray nearest-neighbour approximation, from memory), and exact Gray
+// 8-PSK (Lassing, Ström, Agrell and Ottosson, IEEE Trans. Commun., 2003).
 func ExampleQAMCurve() {
 	qam16 := QAMCurve(16) // a func(float64) float64 of Eb/N0, for x.Curve(…).Theory(qam16)
 	fmt.Printf("16-QAM at 10 dB: BER %.2e\n", qam16(10))

@@ -196,7 +196,7 @@ func Changes(prev, next *result.Run) []string {
 		summary = append(summary, s)
 	}
 	if len(equal) > 0 {
-		summary = append(summary, fmt.Sprintf("%s: the same number of errors in every frame both runs counted (fingerprint changed: an edit of the script's own code, or another tally build)", count(len(equal), len(rows))))
+		summary = append(summary, fmt.Sprintf("%s: the same number of errors in every frame both runs counted (fingerprint changed: an edit of the script's own code, of another variant in a paired comparison, or another tally build)", count(len(equal), len(rows))))
 	}
 	if len(sameCounts) > 0 {
 		summary = append(summary, fmt.Sprintf("%s: same counts", count(len(sameCounts), len(rows))))
