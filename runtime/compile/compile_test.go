@@ -102,3 +102,44 @@ func TestNoToolchain(t *testing.T) {
 		t.Errorf("got %v, want no toolchain", err)
 	}
 }
+
+// The checkout a test binary was built from holds the snapshot's sources (TestSnapshotFresh);
+// a copy of them is the same, and an edited or an added file makes it another version.
+func TestSameAsSnapshot(t *testing.T) {
+	files, err := readSnapshot(snapshot)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	for name, b := range files {
+		p := filepath.Join(dir, filepath.FromSlash(name))
+		if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(p, b, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if !sameAsSnapshot(dir) {
+		t.Fatal("a copy of the snapshot is not the snapshot")
+	}
+	if root := builtFrom(); root != "" && !sameAsSnapshot(root) {
+		t.Error("this checkout differs from the snapshot: run go generate ./runtime/compile")
+	}
+	extra := filepath.Join(dir, "blocks", "link", "extra.go")
+	if err := os.WriteFile(extra, []byte("package link\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if sameAsSnapshot(dir) {
+		t.Error("an added file of a package went unseen")
+	}
+	os.Remove(extra)
+	p := filepath.Join(dir, "blocks", "link", "link.go")
+	b, _ := os.ReadFile(p)
+	if err := os.WriteFile(p, append(b, "\n// edited\n"...), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if sameAsSnapshot(dir) {
+		t.Error("an edited file went unseen")
+	}
+}

@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io/fs"
 	"os"
+	"path"
 	"path/filepath"
 	"runtime"
 	"slices"
@@ -24,11 +25,16 @@ type module struct {
 }
 
 // moduleFor is tally's source for a script: the checkout this tally was built from, if the
-// script sits in it (as go run of the script there would build it, edits since included), else
-// the embedded snapshot, unpacked into the cache once. Another checkout, of another version
+// script sits in it and its sources are still those this tally carries (sameAsSnapshot; with
+// edits since, no build: Unavailable), else the embedded snapshot, unpacked into the cache once. Another checkout, of another version
 // perhaps, is not used: the compiled script must run the blocks the interpreter ran.
 func moduleFor(script, cache string) (*module, error) {
 	if root := checkoutOf(script); root != "" && root == builtFrom() {
+		if !sameAsSnapshot(root) {
+			// The interpreter runs the blocks as this tally was built; the checkout's edited
+			// ones would compute the rest of the run with other code.
+			return nil, &Unavailable{Why: "tally's sources in this checkout changed since this tally was built, and a run must use one version of the blocks (go install ./cmd/tally builds it anew)"}
+		}
 		h, err := hashTree(root)
 		if err == nil {
 			return &module{dir: root, hash: "checkout " + h, from: "checkout"}, nil
@@ -138,4 +144,37 @@ func treeFiles(root string) ([]string, error) {
 	}
 	slices.Sort(files[2:])
 	return files, nil
+}
+
+// sameAsSnapshot reports whether the checkout at root holds the sources of the embedded
+// snapshot, to the byte: every file of the snapshot, and no other Go file (tests aside) in
+// its packages' folders.
+func sameAsSnapshot(root string) bool {
+	files, err := readSnapshot(snapshot)
+	if err != nil {
+		return false
+	}
+	dirs := map[string]bool{}
+	for name, b := range files {
+		got, err := os.ReadFile(filepath.Join(root, filepath.FromSlash(name)))
+		if err != nil || !bytes.Equal(got, b) {
+			return false
+		}
+		if strings.HasSuffix(name, ".go") {
+			dirs[path.Dir(name)] = true
+		}
+	}
+	for d := range dirs {
+		entries, err := os.ReadDir(filepath.Join(root, filepath.FromSlash(d)))
+		if err != nil {
+			return false
+		}
+		for _, e := range entries {
+			n := e.Name()
+			if !e.IsDir() && strings.HasSuffix(n, ".go") && !strings.HasSuffix(n, "_test.go") && files[d+"/"+n] == nil {
+				return false
+			}
+		}
+	}
+	return true
 }
