@@ -10,6 +10,7 @@ import (
 	"io"
 	"math"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -337,6 +338,23 @@ func TestCrossTextUnsigned(t *testing.T) {
 	for x, want := range map[float64]string{-0.003: "0.00 dB", 9.555: "9.55 dB", -1.2: "-1.20 dB"} {
 		if got := crossText(x, "dB"); got != want {
 			t.Errorf("crossText(%g) = %q, want %q", x, got, want)
+		}
+	}
+}
+
+// The ratio panel's ticks are labelled with the decimals their step needs: every label is its
+// tick's value (a narrow range, 0.946 to 1.12, read "1" at 1.03 with rounded labels).
+func TestEvenTicks(t *testing.T) {
+	for _, r := range [][2]float64{{0.946, 1.12}, {0.7, 1.15}, {0, 3.2}, {0.99, 1.004}} {
+		ticks := evenTicks{}.Ticks(r[0], r[1])
+		if len(ticks) < 3 || len(ticks) > 9 {
+			t.Errorf("%v: %d ticks", r, len(ticks))
+		}
+		for _, tk := range ticks {
+			v, err := strconv.ParseFloat(tk.Label, 64)
+			if err != nil || math.Abs(v-tk.Value) > 1e-9 || tk.Value < r[0] || tk.Value > r[1] {
+				t.Errorf("%v: tick %g labelled %q", r, tk.Value, tk.Label)
+			}
 		}
 	}
 }

@@ -3,6 +3,7 @@ package plots
 import (
 	"image/color"
 	"math"
+	"strconv"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/vg"
@@ -49,6 +50,7 @@ func pairedPanel(r *result.Run, cs []curve, legend *Legend) *plot.Plot {
 	p.Add(&unityLine{y: 1})
 	pad := 0.08 * (hi - lo)
 	p.Y.Min, p.Y.Max = math.Max(0, lo-pad), hi+pad
+	p.Y.Tick.Marker = evenTicks{}
 	p.Y.Label.Text = "BER ratio to " + ref
 	legend.Add("difference from "+ref+" shown", &series{glyph: draw.GlyphStyle{Color: theoryCl, Radius: vg.Points(3), Shape: draw.CircleGlyph{}}})
 	legend.Add("no difference shown", &series{glyph: draw.GlyphStyle{Color: theoryCl, Radius: vg.Points(3), Shape: ring{}}})
@@ -83,4 +85,29 @@ func (l *unityLine) Plot(c draw.Canvas, p *plot.Plot) {
 	_, ty := p.Transforms(&c)
 	y := ty(l.y)
 	c.StrokeLine2(draw.LineStyle{Color: theoryCl, Width: vg.Points(0.8), Dashes: []vg.Length{vg.Points(4), vg.Points(3)}}, c.Min.X, y, c.Max.X, y)
+}
+
+// evenTicks marks a linear axis at a round step (1, 2 or 5 times a power of ten) that gives
+// four to eight ticks, each labelled with the decimals the step needs, so that a narrow range
+// of ratios (0.95 to 1.1) reads as 0.96, 0.98, 1.00 … and never as a rounded label away from
+// its tick.
+type evenTicks struct{}
+
+func (evenTicks) Ticks(lo, hi float64) []plot.Tick {
+	if !(hi > lo) {
+		return nil
+	}
+	step := math.Pow(10, math.Floor(math.Log10((hi-lo)/4)))
+	for _, m := range []float64{1, 2, 5, 10} {
+		if (hi-lo)/(m*step) <= 8 {
+			step *= m
+			break
+		}
+	}
+	decimals := max(0, int(-math.Floor(math.Log10(step)+1e-9)))
+	var ticks []plot.Tick
+	for v := math.Ceil(lo/step-1e-9) * step; v <= hi+1e-9*step; v += step {
+		ticks = append(ticks, plot.Tick{Value: v, Label: strconv.FormatFloat(v, 'f', decimals, 64)})
+	}
+	return ticks
 }
