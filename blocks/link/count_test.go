@@ -40,3 +40,4 @@ func BenchmarkCountErrors(b *testing.B) {
 		link.CountErrors(x, y)
 	}
 }
+

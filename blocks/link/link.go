@@ -130,6 +130,22 @@ func (l *Link) Taps() []string {
 	return append(t, l.taps...)
 }
 
+// tapCount is len(l.Taps()) without building the names (a paired link asks it every frame).
+func (l *Link) tapCount() int {
+	if l.variants != nil {
+		n := 0
+		for _, v := range l.variants {
+			n += v.tapCount()
+		}
+		return n + 3*(len(l.variants)-1)
+	}
+	n := 2 + len(l.taps)
+	if l.coded {
+		n++
+	}
+	return n
+}
+
 // Check reports the first block whose parameters are wrong, or a link that cannot count.
 func (l *Link) Check() error {
 	if l.variants != nil {

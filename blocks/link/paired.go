@@ -136,7 +136,7 @@ func (l *Link) runPaired(f *Frame, seed uint64, point, index int, counts []Tally
 		if v > 0 {
 			fv = &l.frames[v]
 		}
-		n := len(x.Taps())
+		n := x.tapCount()
 		if err := x.Run(fv, seed, point, index, counts[at:at+n]); err != nil {
 			return fmt.Errorf("%s: %w", l.names[v], err)
 		}
