@@ -40,4 +40,3 @@ func BenchmarkCountErrors(b *testing.B) {
 		link.CountErrors(x, y)
 	}
 }
-
