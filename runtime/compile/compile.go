@@ -95,7 +95,7 @@ func Script(ctx context.Context, r Request) (*Binary, error) {
 func cacheKey(tool string, src []byte, tc *toolchain, mod *module) string {
 	h := sha256.New()
 	s := sha256.Sum256(src)
-	fmt.Fprintf(h, "tally build 1\n%s\n%s\n%s/%s %s\n%s\n%x\n", tool, tc.version, runtime.GOOS, runtime.GOARCH, tc.amd64, mod.hash, s)
+	fmt.Fprintf(h, "tally build 2\n%s\n%s\n%s/%s %s\n%s\n%x\n", tool, tc.version, runtime.GOOS, runtime.GOARCH, tc.amd64, mod.hash, s)
 	return hex.EncodeToString(h.Sum(nil))[:32]
 }
 
@@ -120,7 +120,9 @@ func build(ctx context.Context, r Request, tc *toolchain, mod *module, cache, ke
 		return &Unavailable{Why: fmt.Sprintf("cannot write into the cache %s: %v", cache, err)}
 	}
 	tmp := filepath.Join(work, "program") // renamed into place: the cache and work share a file system
-	cmd := lowPriority(ctx, tc.gocmd, "build", "-trimpath", "-o", tmp, file)
+	// Without a symbol table and DWARF (-s -w) the link takes a quarter less time; a panic's
+	// stack still names functions and lines (they are in the program's own tables).
+	cmd := grouped(ctx, tc.gocmd, "build", "-trimpath", "-ldflags=-s -w", "-o", tmp, file)
 	cmd.Dir = mod.dir
 	cmd.Env = tc.env()
 	var out bytes.Buffer
@@ -182,7 +184,7 @@ func findToolchain(ctx context.Context) (*toolchain, error) {
 	if err != nil {
 		return nil, &Unavailable{Why: "no Go toolchain (go) on PATH"}
 	}
-	cmd := lowPriority(ctx, gocmd, "env", "GOVERSION", "GOMODCACHE", "GOCACHE", "GOPATH")
+	cmd := grouped(ctx, gocmd, "env", "GOVERSION", "GOMODCACHE", "GOCACHE", "GOPATH")
 	cmd.Env = append(os.Environ(), "GOTOOLCHAIN=local", "GOFLAGS=")
 	out, err := cmd.Output()
 	if ctx.Err() != nil {

@@ -47,6 +47,19 @@ func moduleFor(script, cache string) (*module, error) {
 	return &module{dir: dir, hash: "snapshot " + h, from: "snapshot"}, nil
 }
 
+// ModuleDir is the folder a build of the script takes tally's source from (see moduleFor):
+// where `go build` of the script by hand would be run, as tally bench does for its reference.
+func ModuleDir(script, cache string) (string, error) {
+	if cache == "" {
+		cache = DefaultCache()
+	}
+	m, err := moduleFor(script, cache)
+	if err != nil {
+		return "", err
+	}
+	return m.dir, nil
+}
+
 // builtFrom is the root of the checkout this binary was built from, "" when it is unknown (a
 // build with -trimpath records no paths).
 func builtFrom() string {

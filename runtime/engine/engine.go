@@ -180,11 +180,18 @@ func Run(ctx context.Context, s Spec) (Outcome, error) {
 	if workers <= 0 {
 		workers = runtime.NumCPU()
 	}
-	first, second, err := buildLinks(s)
+	first, err := buildFirst(s)
 	if err != nil {
 		return Outcome{}, err
 	}
 	r, err := newPointRun(s, first.Taps())
+	if err != nil {
+		return Outcome{}, err
+	}
+	// The point is told started at once: the check of a script's own blocks below computes a
+	// few frames before the first commit, which interpreted can take a good part of a second.
+	r.progress()
+	second, err := buildSecond(s, first)
 	if err != nil {
 		return Outcome{}, err
 	}
@@ -207,32 +214,39 @@ func Run(ctx context.Context, s Spec) (Outcome, error) {
 	return out, nil
 }
 
-// buildLinks builds the first link and checks it and the rules; unless replaying, it builds a
-// second and checks that the two share nothing (checkInstances).
-func buildLinks(s Spec) (first, second *link.Link, err error) {
-	if first, err = s.Build(); err != nil {
-		return nil, nil, err
+// buildFirst builds the first link and checks it and the rules.
+func buildFirst(s Spec) (*link.Link, error) {
+	first, err := s.Build()
+	if err != nil {
+		return nil, err
 	}
 	if err := first.Check(); err != nil {
-		return nil, nil, err
+		return nil, err
 	}
 	for _, r := range s.Rules {
 		if c, ok := r.(link.Checked); ok {
 			if err := c.Err(); err != nil {
-				return nil, nil, err
+				return nil, err
 			}
 		}
 	}
+	return first, nil
+}
+
+// buildSecond builds, unless replaying, a second link and checks that it and the first share
+// nothing (checkInstances).
+func buildSecond(s Spec, first *link.Link) (*link.Link, error) {
 	if s.Replay != nil {
-		return first, nil, nil
+		return nil, nil
 	}
-	if second, err = s.Build(); err != nil {
-		return nil, nil, err
+	second, err := s.Build()
+	if err != nil {
+		return nil, err
 	}
 	if err := checkInstances(s, first, second); err != nil {
-		return nil, nil, err
+		return nil, err
 	}
-	return first, second, nil
+	return second, nil
 }
 
 // Extrapolate guesses how many frames in all a point needs for a rule to be met, from a

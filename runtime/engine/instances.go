@@ -133,6 +133,21 @@ func structPointers(v reflect.Value, depth int, seen map[uintptr]bool, found fun
 	}
 }
 
+// HasCustom reports whether a link (or a variant of a paired one) has a block of the script's
+// own: one the interpreter computes when the script runs interpreted, where a link of tally's
+// blocks alone computes at compiled speed either way.
+func HasCustom(l *link.Link) bool {
+	if vs := l.Variants(); vs != nil {
+		for _, v := range vs {
+			if HasCustom(v) {
+				return true
+			}
+		}
+		return false
+	}
+	return hasCustom(l)
+}
+
 // hasCustom reports whether a link has a block that is not one of tally's compiled blocks.
 func hasCustom(l *link.Link) bool {
 	for _, b := range l.Blocks() {

@@ -3,6 +3,7 @@ package engine
 import (
 	"context"
 	"testing"
+	"time"
 
 	"tally/blocks/link"
 	"tally/blocks/stop"
@@ -63,6 +64,31 @@ func TestObserversSeeCommitsInOrder(t *testing.T) {
 			if r.progress == 0 {
 				t.Errorf("workers %d: no progress told (ProgressEvery 0)", w)
 			}
+		}
+	}
+}
+
+// prefixes keeps the frame count of every prefix it is told.
+type prefixes struct {
+	Ignore
+	frames []int64
+}
+
+func (p *prefixes) Progress(pr *stop.Progress) { p.frames = append(p.frames, pr.Frames) }
+
+// However long ProgressEvery, a point is told as it starts (no frame yet: the check of a
+// script's own blocks may take several frames' time first) and at its first commit, so a run
+// shows at once that it is alive; after that at most every ProgressEvery.
+func TestProgressToldAtStartAndFirstCommit(t *testing.T) {
+	for _, w := range []int{1, 4} {
+		p := &prefixes{}
+		_, err := Run(context.Background(), Spec{Point: testPoint, Seed: testSeed, Workers: w, Build: bscLink(0.02, false),
+			Rules: []stop.Rule{stop.Errors(30)}, Observers: []Observer{p}, ProgressEvery: time.Hour})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(p.frames) != 2 || p.frames[0] != 0 || p.frames[1] < 1 {
+			t.Errorf("workers %d: told prefixes of %v frames; want [0 n≥1]", w, p.frames)
 		}
 	}
 }

@@ -25,8 +25,12 @@ type pointRun struct {
 	out    Outcome
 	start  time.Time
 	before time.Duration // wall time spent on the point before this run (resume)
-	shown  time.Time     // when Progress was last told
-	log    *framelog.Log // the committed frames, one by one (nil: not kept)
+	shown  time.Time     // when Progress was last told (zero: never)
+	// toldFrames says Progress was told a frame this run committed; startFrames are the
+	// prefix's frames when it began (a resumed point's).
+	toldFrames  bool
+	startFrames int64
+	log         *framelog.Log // the committed frames, one by one (nil: not kept)
 }
 
 func newPointRun(s Spec, taps []string) (*pointRun, error) {
@@ -52,7 +56,7 @@ func newPointRun(s Spec, taps []string) (*pointRun, error) {
 		r.log = s.Start.Log
 	}
 	r.start = time.Now()
-	r.shown = r.start
+	r.startFrames = r.prog.Frames
 	return r, nil
 }
 
@@ -97,10 +101,15 @@ func (r *pointRun) commit(idx int64, counts []link.Tally, computed bool) bool {
 	return r.judge()
 }
 
-// progress tells the observers the prefix, at most every ProgressEvery.
+// progress tells the observers the prefix, at most every ProgressEvery, and at once when the
+// point starts and when its first frame is committed (a run shows it is alive).
 func (r *pointRun) progress() {
-	if len(r.obs) > 0 && time.Since(r.shown) >= r.s.ProgressEvery {
-		r.shown = time.Now()
+	if len(r.obs) == 0 {
+		return
+	}
+	first := !r.toldFrames && r.prog.Frames > r.startFrames
+	if first || time.Since(r.shown) >= r.s.ProgressEvery {
+		r.shown, r.toldFrames = time.Now(), r.toldFrames || first
 		r.prog.Elapsed = r.before + time.Since(r.start)
 		r.obs.Progress(r.prog)
 	}

@@ -17,10 +17,13 @@ import (
 	"tally/runtime/result"
 )
 
-// Handover is how a run started in the interpreter goes on compiled. With the interpreted
-// child, the parent builds the same bytes of the script with the Go toolchain (runtime/compile;
-// imports are checked by the sandbox's rules first, so only what the interpreter accepts is
-// built). When the program is ready it asks the child to stop at its next commit boundary: the
+// Handover is how a run started in the interpreter goes on compiled. When the interpreted
+// child reaches a link with a block of the script's own (the only part of a run the
+// interpreter computes slower), the parent builds the same bytes of the script with the Go
+// toolchain (runtime/compile; imports are checked by the sandbox's rules first, so only what
+// the interpreter accepts is built); the child yields the processors to the build once its run
+// looks longer than a moment (pace.go). When the program is ready, and the run has more than a
+// moment left, the parent asks the child to stop at its next commit boundary: the
 // child saves its checkpoint (the committed prefix of the point in progress and the finished
 // points) and ends without outputs; the compiled script is then started as the run's child, with
 // the same job, and continues from the checkpoint. A run is defined by its committed counts, so
@@ -63,7 +66,12 @@ type handing struct {
 	at      *result.Spot // where the run was handed over
 	took    time.Duration
 	quiet   bool
-	skipped string // why no build was started
+	skipped string // why no build can be started
+
+	// launch starts the build (once; nil when none can be); launched says it was. Both are
+	// used by the parent's goroutine only.
+	launch   func()
+	launched bool
 }
 
 // startBuild starts the build of the script beside its interpreted run (nil when hand-overs
@@ -91,21 +99,36 @@ func (p *parent) startBuild(ctx context.Context, j *job) *handing {
 	}
 	bctx, cancel := context.WithCancel(ctx)
 	hd.cancel = cancel
-	go func() {
-		defer close(hd.ready)
-		hd.bin, hd.err = compile.Script(bctx, compile.Request{Script: p.path, Source: src, Cache: h.Cache, Tool: host.Version})
-	}()
+	hd.launch = func() {
+		if hd.launched {
+			return
+		}
+		hd.launched = true
+		go func() {
+			defer close(hd.ready)
+			hd.bin, hd.err = compile.Script(bctx, compile.Request{Script: p.path, Source: src, Cache: h.Cache, Tool: host.Version})
+		}()
+	}
+	if h.At != nil {
+		hd.launch() // the test's hand-over waits for it
+	}
 	return hd
 }
 
-// yieldAfter is how long an interpreted run keeps its priority beside the build: a short
-// script ends interpreted, unhindered by the build (which runs at a lower priority); a longer
-// one, once it has shown its first progress, then yields the processors to the build, since
-// the compiled script will soon do its work many times faster.
-const yieldAfter = time.Second
+// need starts the build when the run first reaches a link with a block of the script's own (a
+// point's first progress says): a link of tally's blocks alone computes at compiled speed in
+// the interpreter too, so a run of such links only is not worth a build.
+func (hd *handing) need(l *wire.Live) {
+	if hd != nil && hd.launch != nil && l != nil && l.Custom {
+		hd.launch()
+	}
+}
 
 // building says whether the build is still running.
 func (hd *handing) building() bool {
+	if !hd.launched {
+		return false
+	}
 	select {
 	case <-hd.ready:
 		return false
@@ -118,7 +141,9 @@ func (hd *handing) building() bool {
 func (hd *handing) end() {
 	if hd != nil && hd.cancel != nil {
 		hd.cancel()
-		<-hd.ready // the go command's processes killed and the build's folder removed before tally ends
+		if hd.launched {
+			<-hd.ready // the go command's processes killed and the build's folder removed before tally ends
+		}
 	}
 }
 
@@ -162,6 +187,9 @@ func (hd *handing) record(r *result.Run, h *Handover) {
 		r.Start = hd.start.UTC() // the run began in the interpreter
 	default:
 		e := &result.Execution{How: "interpreted", Why: "the run ended before the build"}
+		if !hd.launched {
+			e.Why = "its links have no block of the script's own: they compute compiled either way"
+		}
 		select {
 		case <-hd.ready:
 			var u *compile.Unavailable

@@ -26,7 +26,6 @@ import (
 	"tally/runtime/host"
 	"tally/runtime/longrun"
 	"tally/runtime/output"
-	"tally/runtime/progress"
 	"tally/runtime/result"
 )
 
@@ -174,6 +173,11 @@ func (p *parent) run(ctx context.Context, exe string) error {
 			return err
 		}
 		exe, j = p.next(ctx, exe, j, hd)
+		if ctx.Err() != nil {
+			// Ctrl-C while the run waited for its build: it stops where the interpreter
+			// left it, the checkpoint kept for -resume.
+			return p.interrupted()
+		}
 	}
 }
 
@@ -251,10 +255,26 @@ func (p *parent) stage(ctx context.Context, exe string, j job, hd *handing) (err
 	overRSS := int64(0)
 	done := ctx.Done()
 	ready := hd.readyFor(j)
-	var yield <-chan time.Time
-	progressed := false // the child reported a point or its progress
-	if ready != nil || j.HandAt != nil {
-		yield = time.After(yieldAfter)
+	// An interpreted child that will hand over yields the processors to the build once its
+	// run looks longer than a moment (pace), and is handed over once the build is ready and
+	// the run has more than a moment left: a short run ends interpreted, unhindered.
+	pc := newPace(time.Now())
+	yielding := ready != nil || j.HandAt != nil
+	var blind <-chan time.Time
+	if yielding {
+		blind = time.After(yieldBlind)
+	}
+	built, handing := false, false
+	consider := func() {
+		now := time.Now()
+		if yielding && hd.building() && pc.shouldYield(now) {
+			yieldCPU(cmd.Process.Pid)
+			yielding = false
+		}
+		if built && !handing && !stopped && p.got == nil && pc.shouldHand(now) {
+			handing = true
+			ctl.Encode(reply{Stop: true, Handover: true})
+		}
 	}
 	kill := func() {
 		if !killed {
@@ -273,11 +293,12 @@ loop:
 			case kindPos:
 				p.pos = r.Pos
 			case kindPoint:
-				progressed = true
 				if len(r.Run.Points) <= p.seen {
 					continue // a point the run reported before its hand-over
 				}
 				p.seen = len(r.Run.Points)
+				pc.point(r.Total, time.Now())
+				consider()
 				// As in host.Run: Point after each point that ended (not skipped, not
 				// interrupted), OnPoint after every point.
 				if n := len(r.Run.Points); n > 0 && r.Run.Points[n-1].Stop != "interrupted" && r.Run.Points[n-1].Stop != "skipped" {
@@ -290,7 +311,11 @@ loop:
 					p.c.Host.OnPoint(r.Run, r.Total)
 				}
 			case kindLive:
-				progressed = true
+				if r.Live != nil {
+					hd.need(r.Live)
+					pc.live(r.Live, time.Now())
+				}
+				consider()
 				if p.c.Host.OnProgress != nil && r.Live != nil {
 					pr := r.Live.Prefix
 					p.c.Host.OnProgress(r.Live.Point(), &pr)
@@ -321,22 +346,15 @@ loop:
 			stopped = true
 			ctl.Encode(reply{Stop: true})
 			grace = time.After(p.c.Grace)
-		case <-yield:
-			// A script still running after this long, its first progress shown, is worth
-			// handing over: the build comes first from now on.
-			switch {
-			case !hd.building():
-			case !progressed:
-				yield = time.After(progress.Every)
-			default:
-				yieldCPU(cmd.Process.Pid)
-			}
 		case <-ready:
-			// The compiled script is built (or cannot be): hand the run over to it.
+			// The compiled script is built (or cannot be): hand the run over to it, unless
+			// the run is about to end.
 			ready = nil
-			if hd.usable(p.log()) && !stopped && p.got == nil {
-				ctl.Encode(reply{Stop: true, Handover: true})
-			}
+			built = hd.usable(p.log())
+			consider()
+		case <-blind:
+			blind = nil
+			consider()
 		case <-grace:
 			kill()
 		case <-rss.C:

@@ -2,6 +2,7 @@ package page
 
 import (
 	"context"
+	"math"
 	"os"
 	"path/filepath"
 	"sync"
@@ -86,11 +87,23 @@ func main() {
 	if len(lives) < 2 {
 		t.Fatalf("%d progress calls in two points of 0.6 s each", len(lives))
 	}
+	starts := 0
 	for _, l := range lives {
+		if l.Bits == 0 {
+			// Told as each point starts, before its first frame: no rate or estimate yet.
+			starts++
+			if l.Goal != 1e9 || l.Total != 2 || !math.IsNaN(l.BER) {
+				t.Errorf("start of a point told %+v", l)
+			}
+			continue
+		}
 		// Errors(1e9) is the goal, no bit cap; the time rule projects the time left.
 		if l.Goal != 1e9 || l.Cap != 0 || l.Bits <= 0 || l.Rate <= 0 || l.Left < 0 || l.Total != 2 ||
 			!(l.Low <= l.BER && l.BER <= l.High) {
 			t.Errorf("progress %+v", l)
 		}
+	}
+	if starts != 2 {
+		t.Errorf("%d of 2 points told as they start", starts)
 	}
 }

@@ -46,6 +46,9 @@ type Point struct {
 	// Tap is the tap the line counts: the governing one, whose rules end the point (a
 	// script's "payload" tap when its error count does); "" is the BER tap.
 	Tap string
+	// Custom says the point's link has a block of the script's own (engine.HasCustom), which
+	// an interpreted run computes in the interpreter: what makes handing it over worth it.
+	Custom bool
 }
 
 // tap is the tap the line counts.
@@ -107,6 +110,12 @@ func (l *Line) Close() {
 func Live(p Point, pr *stop.Progress) string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "[%d/%d] %s ", p.Index+1, p.Total, p.Label)
+	if pr.Frames == 0 {
+		// Told as the point starts: a link with blocks of the script's own first has them
+		// checked on a few frames (engine.checkInstances).
+		b.WriteString(" starting")
+		return b.String()
+	}
 	name := p.tap()
 	ber, _ := pr.Tap(link.TapBER)
 	t, ok := pr.Tap(name)

@@ -62,6 +62,15 @@ func TestLive(t *testing.T) {
 	}
 }
 
+// A point just started (no frame committed yet) says so, with no counts or rates of nothing.
+func TestLiveStarting(t *testing.T) {
+	p := Point{Label: "ebn0_db=4", Index: 2, Total: 6, Rules: []stop.Rule{stop.Errors(100)}}
+	pr := &stop.Progress{Taps: []string{link.TapBER}, Counts: make([]link.Tally, 1), Elapsed: time.Millisecond}
+	if s := Live(p, pr); s != "[3/6] ebn0_db=4  starting" {
+		t.Errorf("live line at the start %q", s)
+	}
+}
+
 // The error count inside All is the goal the line shows.
 func TestLiveAllGoal(t *testing.T) {
 	p := Point{Label: "ebn0_db=4", Index: 2, Total: 6, Rules: []stop.Rule{stop.All(stop.Errors(100), stop.Frames(20)), stop.Bits(1e7)}}

@@ -16,7 +16,7 @@ import (
 func (x *experiment) runEngine(ctx context.Context, pt Point, rules []stop.Rule, s engine.Spec) (engine.Outcome, error) {
 	o := x.opts
 	pp := progress.Point{Label: pt.text(), Index: pt.Index, Total: x.pointCount(),
-		Rules: rules, Confidence: x.Confidence, Method: x.Method, Tap: x.tap}
+		Rules: rules, Confidence: x.Confidence, Method: x.Method, Tap: x.tap, Custom: x.custom}
 	var line *progress.Line
 	if !o.Quiet && isTerminal(o.log()) {
 		line = progress.NewLine(o.log(), pp)

@@ -47,6 +47,8 @@ type experiment struct {
 	script     string
 	rulesPrint string
 	prev       map[string]*result.Point
+	// custom says the running point's link has a block of the script's own (engine.HasCustom).
+	custom bool
 }
 
 // Run runs a script's experiment (sim.Experiment.Run): every point, then table.csv, run.json,
@@ -277,6 +279,7 @@ func (x *experiment) runPoint(ctx context.Context, pt Point, rules []stop.Rule, 
 		return rp, err
 	}
 	fp, whole := linkFingerprint(first, pt, seed, x.script)
+	x.custom = engine.HasCustom(first)
 	handed := false
 	engineBuild := func() (*link.Link, error) {
 		if !handed {

@@ -201,6 +201,7 @@ func (x *experiment) runGroup(ctx context.Context, g group, rules []stop.Rule, s
 		return nil, err
 	}
 	lay := layoutOf(probe)
+	x.custom = engine.HasCustom(probe)
 	// The group's fingerprint covers every variant's link: while none changes, the group
 	// computes the same frames (a what-changed report then tests nothing).
 	fp, wholeScript := linkFingerprint(probe, g.rows[0], seed, x.script)

@@ -97,6 +97,7 @@ type Live struct {
 	Confidence   float64
 	Method       string
 	Tap          string // the governing tap the line counts
+	Custom       bool   // the link has a block of the script's own (progress.Point.Custom)
 	Errors       []stop.ErrorTarget
 	Bits         []stop.BitCap
 	Time         []stop.TimeLimit
@@ -105,7 +106,7 @@ type Live struct {
 
 // LiveOf is the progress message of a point's prefix.
 func LiveOf(p progress.Point, pr *stop.Progress) *Live {
-	l := &Live{Label: p.Label, Index: p.Index, Total: p.Total, Confidence: p.Confidence, Method: p.Method, Tap: p.Tap, Prefix: *pr}
+	l := &Live{Label: p.Label, Index: p.Index, Total: p.Total, Confidence: p.Confidence, Method: p.Method, Tap: p.Tap, Custom: p.Custom, Prefix: *pr}
 	for _, r := range p.Rules {
 		switch r := r.(type) {
 		case *stop.ErrorTarget:
@@ -121,7 +122,7 @@ func LiveOf(p progress.Point, pr *stop.Progress) *Live {
 
 // Point is the progress.Point the parent hands its OnProgress.
 func (l *Live) Point() progress.Point {
-	p := progress.Point{Label: l.Label, Index: l.Index, Total: l.Total, Confidence: l.Confidence, Method: l.Method, Tap: l.Tap}
+	p := progress.Point{Label: l.Label, Index: l.Index, Total: l.Total, Confidence: l.Confidence, Method: l.Method, Tap: l.Tap, Custom: l.Custom}
 	for i := range l.Errors {
 		p.Rules = append(p.Rules, &l.Errors[i])
 	}

@@ -448,6 +448,11 @@
       bars.innerHTML = '<p class="note">' + (n ? "point " + (n + 1) + (v.total ? " of " + v.total : "") + " starting…" : "run " + v.seq + " started at " + clock(v.since) + " after a save; the first point is running…") + "</p>";
       return;
     }
+    if (!(num(l.bits) > 0)) {
+      // told as the point starts, before its first frame is in
+      bars.innerHTML = '<p class="note">[' + (l.index + 1) + "/" + l.total + "] " + esc(l.label) + " · starting…</p>";
+      return;
+    }
     var f = 0;
     if (l.goal > 0) f = Math.max(f, l.errors / l.goal);
     if (l.cap > 0) f = Math.max(f, l.bits / l.cap);

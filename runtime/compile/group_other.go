@@ -7,6 +7,6 @@ import (
 	"os/exec"
 )
 
-func lowPriority(ctx context.Context, name string, args ...string) *exec.Cmd {
+func grouped(ctx context.Context, name string, args ...string) *exec.Cmd {
 	return exec.CommandContext(ctx, name, args...)
 }
