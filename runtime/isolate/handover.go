@@ -195,6 +195,8 @@ func (hd *handing) record(r *result.Run, h *Handover) {
 			var u *compile.Unavailable
 			if errors.As(hd.err, &u) {
 				e.Why = u.Why
+			} else if hd.err == nil && hd.bin != nil {
+				e.Why = "the build was ready as the run was about to end"
 			}
 		default:
 		}

@@ -49,6 +49,9 @@ func (p *pace) point(total int, now time.Time) {
 // remaining is the guess of the run's time left, false when there is nothing to go on yet: no
 // finished point and no progress of the running one that a rule can be extrapolated from.
 func (p *pace) remaining(now time.Time) (time.Duration, bool) {
+	if p.total > 0 && p.points >= p.total {
+		return 0, true // every point reported: the run is writing its outputs
+	}
 	in := now.Sub(p.pointFrom) // in the running point so far
 	var per time.Duration      // a point's time, from those finished
 	if p.points > 0 {
@@ -59,7 +62,13 @@ func (p *pace) remaining(now time.Time) (time.Duration, bool) {
 	case p.leftOK:
 		cur = p.left
 	case p.points > 0:
-		cur = max(per-in, 0)
+		// No rule to extrapolate yet (an error count before its first error): what the mean
+		// point's time leaves, or, past the mean, as long again as it has run, since such a
+		// point is often the slow last one of a sweep.
+		cur = per - in
+		if in >= per {
+			cur = in
+		}
 	default:
 		return 0, false
 	}

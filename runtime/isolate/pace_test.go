@@ -81,7 +81,30 @@ func TestPaceManyQuickPoints(t *testing.T) {
 	if !ok || left != 29*5*time.Millisecond+5*time.Millisecond {
 		t.Errorf("remaining = %v, %v; want 150 ms", left, ok)
 	}
-	if p.shouldHand(now.Add(10 * time.Millisecond)) {
-		t.Error("150 ms left in quick points: handed over")
+	if p.shouldHand(now.Add(2 * time.Millisecond)) {
+		t.Error("under 150 ms left in quick points: handed over")
+	}
+	// Every point reported: nothing is left to hand over, whatever the mean.
+	for range 30 {
+		p.point(90, now)
+	}
+	if left, ok := p.remaining(now.Add(time.Second)); !ok || left != 0 || p.shouldHand(now.Add(time.Second)) {
+		t.Errorf("after the last point: remaining %v, %v", left, ok)
+	}
+}
+
+// A point with no rule to extrapolate yet (an error count before its first error) that runs
+// past the mean of the points before it is guessed to need at least as long again: the slow
+// last point of a sweep is still worth a hand-over.
+func TestPaceSlowLastPoint(t *testing.T) {
+	t0 := time.Unix(1000, 0)
+	p := newPace(t0)
+	for k := range 4 {
+		p.point(5, t0.Add(time.Duration(k+1)*20*time.Millisecond))
+	}
+	now := t0.Add(80 * time.Millisecond).Add(2 * time.Second) // the last point, 2 s in, no error yet
+	left, ok := p.remaining(now)
+	if !ok || left != 2*time.Second || !p.shouldHand(now) {
+		t.Errorf("last point 2 s in with no projection: remaining %v, %v; want 2 s, handed over", left, ok)
 	}
 }
