@@ -80,6 +80,10 @@ func TestTypedSurfaceMistakesAtTheirLine(t *testing.T) {
 	x.Curve("a", bpsk(ebn0)).Theory(theory.BPSK)
 	x.Curve("b", bpsk(ebn0)).Limit(link.TapFER, theory.BPSK)
 	x.Run()`, "typed.go:29:2: sim.Curve: some curves have a Theory and others a Limit"},
+		{"limit without a function", `	x := sim.New("t")
+	ebn0 := x.Axis("ebn0_db", 0, 2)
+	x.Curve("b", func(p sim.Point) *link.Link { return bpsk(ebn0)(p) }).Limit(link.TapFER, nil)
+	x.Run()`, `typed.go:27:2: sim.Curve("b").Limit: the function is nil`},
 		{"legend swept twice", `	x := sim.New("t")
 	ebn0 := x.Axis("ebn0_db", 0, 2)
 	x.Choices("modem", "a")

@@ -80,7 +80,7 @@ func (c *Curve) Theory(fn func(x float64) float64) *Curve {
 // on another swept parameter too (a Rician K factor, a code length).
 func (c *Curve) TheoryAt(fn func(p Point) float64) *Curve {
 	if fn == nil {
-		runner.Fail(fmt.Errorf("sim.Curve(%q).Theory: the function is nil", c.name))
+		runner.Fail(fmt.Errorf("sim.Curve(%q).TheoryAt: the function is nil", c.name))
 	}
 	if c.x.typed.theoryAt < 0 {
 		c.x.typed.theoryAt = len(c.x.spec.Theory)
@@ -95,6 +95,9 @@ func (c *Curve) TheoryAt(fn func(p Point) float64) *Curve {
 func (c *Curve) Limit(tap string, fn func(x float64) float64) *Curve {
 	if tap == "" {
 		runner.Fail(fmt.Errorf("sim.Curve(%q).Limit: name the tap the limit is on (link.TapFER, say)", c.name))
+	}
+	if fn == nil {
+		runner.Fail(fmt.Errorf("sim.Curve(%q).Limit: the function is nil", c.name))
 	}
 	c.Theory(fn)
 	c.limitTap = tap
