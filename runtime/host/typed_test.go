@@ -84,6 +84,10 @@ func TestTypedSurfaceMistakesAtTheirLine(t *testing.T) {
 	ebn0 := x.Axis("ebn0_db", 0, 2)
 	x.Curve("b", func(p sim.Point) *link.Link { return bpsk(ebn0)(p) }).Limit(link.TapFER, nil)
 	x.Run()`, `typed.go:27:2: sim.Curve("b").Limit: the function is nil`},
+		{"limit without a function, the link from a helper", `	x := sim.New("t")
+	ebn0 := x.Axis("ebn0_db", 0, 2)
+	x.Curve("b", bpsk(ebn0)).Limit(link.TapFER, nil)
+	x.Run()`, `typed.go:27:2: sim.Curve("b").Limit: the function is nil`},
 		{"legend swept twice", `	x := sim.New("t")
 	ebn0 := x.Axis("ebn0_db", 0, 2)
 	x.Choices("modem", "a")
@@ -186,5 +190,41 @@ func TestFrameRoundedAndSaidOnce(t *testing.T) {
 	err = Run(context.Background(), p, quiet(1))
 	if err == nil || !strings.Contains(err.Error(), "1001 coded bits do not fill whole 2-bit symbols") {
 		t.Errorf("Exact: %v", err)
+	}
+}
+
+// A panic inside a helper that builds a link is reported at the helper's statement that
+// panicked: the marker the helper puts back on return is not put back by a panic.
+func TestPanicInBuilderHelperAtItsLine(t *testing.T) {
+	src := `//go:build ignore
+
+package main
+
+import (
+	"tally/blocks/link"
+	"tally/runtime/sim"
+)
+
+func broken(n int) *link.Link {
+	var taps []int
+	_ = taps[n]
+	return nil
+}
+
+func main() {
+	x := sim.New("t")
+	x.Axis("ebn0_db", 0, 2)
+	l := broken(3)
+	x.Link(func(p sim.Point) *link.Link { return l })
+	x.Run()
+}
+`
+	p := filepath.Join(t.TempDir(), "helper.go")
+	if err := os.WriteFile(p, []byte(src), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	err := Run(context.Background(), p, quiet(1))
+	if err == nil || !strings.Contains(err.Error(), "helper.go:12:") || !strings.Contains(err.Error(), "index out of range") {
+		t.Fatalf("got %v; want the index out of range at helper.go:12", err)
 	}
 }
