@@ -88,6 +88,10 @@ func TestTypedSurfaceMistakesAtTheirLine(t *testing.T) {
 	ebn0 := x.Axis("ebn0_db", 0, 2)
 	x.Curve("b", bpsk(ebn0)).Limit(link.TapFER, nil)
 	x.Run()`, `typed.go:27:2: sim.Curve("b").Limit: the function is nil`},
+		{"variants named as no column can be", `	x := sim.New("t")
+	x.Axis("ebn0_db", 0, 2)
+	x.Variants("front end", "plain", "clipped")
+	x.Run()`, `typed.go:27:2: sim.Variants: parameter name "front end" must be letters, digits and _`},
 		{"legend swept twice", `	x := sim.New("t")
 	ebn0 := x.Axis("ebn0_db", 0, 2)
 	x.Choices("modem", "a")

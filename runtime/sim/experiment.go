@@ -58,7 +58,7 @@ func init() {
 // Sweep adds a swept parameter with its values. The first Sweep is the x axis; each further one
 // multiplies the grid (one curve per value in the plot).
 func (x *Experiment) Sweep(name string, values ...float64) *Experiment {
-	x.checkName(name)
+	x.checkName("sim.Sweep", name)
 	if len(values) == 0 {
 		runner.Fail(fmt.Errorf("sim.Sweep: parameter %q has no values", name))
 	}
@@ -74,7 +74,7 @@ func (x *Experiment) Sweep(name string, values ...float64) *Experiment {
 // SweepLabels sweeps a parameter over named choices (modems, codes): Point.Get gives the
 // choice's index 0, 1, …, Point.Label its name, and the table shows the name.
 func (x *Experiment) SweepLabels(name string, labels ...string) *Experiment {
-	x.checkName(name)
+	x.checkName("sim.SweepLabels", name)
 	if len(labels) == 0 {
 		runner.Fail(fmt.Errorf("sim.SweepLabels: parameter %q has no labels", name))
 	}
@@ -86,13 +86,13 @@ func (x *Experiment) SweepLabels(name string, labels ...string) *Experiment {
 	return x
 }
 
-func (x *Experiment) checkName(name string) {
+func (x *Experiment) checkName(who, name string) {
 	if !isColumnName(name) {
-		runner.Fail(fmt.Errorf("sim.Sweep: parameter name %q must be letters, digits and _ (it names a table column)", name))
+		runner.Fail(fmt.Errorf("%s: parameter name %q must be letters, digits and _ (it names a table column)", who, name))
 	}
 	for _, p := range x.spec.Params {
 		if p.Name == name {
-			runner.Fail(fmt.Errorf("sim.Sweep: parameter %q is swept twice", name))
+			runner.Fail(fmt.Errorf("%s: parameter %q is swept twice", who, name))
 		}
 	}
 }

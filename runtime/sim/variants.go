@@ -28,7 +28,7 @@ import (
 // comparison itself. The variants' frames are keyed by the point without the variants axis:
 // a block sees that index as f.Point, the same in every variant.
 func (x *Experiment) Variants(name string, labels ...string) *Experiment {
-	x.checkName(name)
+	x.checkName("sim.Variants", name)
 	if len(labels) < 2 {
 		runner.Fail(fmt.Errorf("sim.Variants: %q has %d variant(s): a comparison needs two or more (the first is the reference)", name, len(labels)))
 	}
