@@ -215,6 +215,9 @@ func translate(path string, err error, mk *marks) error {
 		var f *runner.Failure
 		if e, ok := pn.Value.(error); ok && errors.As(e, &f) && f.Pos != "" {
 			msg, line, col := inGoWords(f.Err)
+			if mk != nil && line > 0 {
+				col = mk.column(line, col) // the interpreter's column counts the inserted markers
+			}
 			return &ScriptError{Pos: scriptPosAt(f.Pos, line, col), Msg: msg}
 		}
 		pos := path
@@ -222,6 +225,9 @@ func translate(path string, err error, mk *marks) error {
 			pos = mk.where()
 		}
 		msg, line, col := goMessage(pn.Value)
+		if mk != nil && line > 0 {
+			col = mk.column(line, col)
+		}
 		return &ScriptError{Pos: scriptPosAt(pos, line, col), Msg: msg}
 	}
 	var list scanner.ErrorList

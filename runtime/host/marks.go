@@ -18,12 +18,6 @@ import (
 // code, is then reported at the last statement the script reached. Loop bodies stay unmarked so
 // a script's own per-sample code pays nothing; an error there is reported at the loop.
 //
-// A function that returns something other than basic values (a link, a block, a function: a
-// helper that builds what a declaration takes, x.Curve("a", bpsk(ebn0))) also puts the caller's
-// marker back when it returns, so a mistake the declaration finds after the helper ran is
-// reported at the declaration, not at the helper's last statement. A panic leaves the marker
-// where it struck. Functions of basic results (per-sample helpers) pay nothing of this.
-//
 // Markers go on the same line as their statement and the import on the package line, so the
 // instrumented text keeps every line number.
 
@@ -47,22 +41,13 @@ func (m *marks) where() string {
 }
 
 func (m *marks) exports() interp.Exports {
-	return interp.Exports{markPkg + "/mark": {
-		"At":  reflect.ValueOf(func(i int) { m.last.Store(int64(i)) }),
-		"Now": reflect.ValueOf(func() int { return int(m.last.Load()) }),
-	}}
+	return interp.Exports{markPkg + "/mark": {"At": reflect.ValueOf(func(i int) { m.last.Store(int64(i)) })}}
 }
 
 // instrument returns src with markers and the fixes inserted, and the marker table.
 func instrument(fset *token.FileSet, f *ast.File, src []byte, fixes ...insertion) ([]byte, *marks) {
 	m := &marks{}
 	var offsets []int
-	var restores []int // offsets just inside the bodies of functions that put the caller's marker back
-	restoring := func(t *ast.FuncType, body *ast.BlockStmt) {
-		if body != nil && buildsSomething(t) {
-			restores = append(restores, fset.Position(body.Lbrace).Offset+1)
-		}
-	}
 	var list func(stmts []ast.Stmt, inLoop bool)
 	var visit func(n ast.Node, inLoop bool)
 	list = func(stmts []ast.Stmt, inLoop bool) {
@@ -95,7 +80,6 @@ func instrument(fset *token.FileSet, f *ast.File, src []byte, fixes ...insertion
 			}
 			switch s := c.(type) {
 			case *ast.FuncLit:
-				restoring(s.Type, s.Body)
 				visit(s.Body, false)
 				return false
 			case *ast.ForStmt:
@@ -113,7 +97,6 @@ func instrument(fset *token.FileSet, f *ast.File, src []byte, fixes ...insertion
 	}
 	for _, d := range f.Decls {
 		if fd, ok := d.(*ast.FuncDecl); ok && fd.Body != nil {
-			restoring(fd.Type, fd.Body)
 			visit(fd.Body, false)
 		}
 	}
@@ -126,12 +109,6 @@ func instrument(fset *token.FileSet, f *ast.File, src []byte, fixes ...insertion
 	for i, off := range offsets {
 		p := m.pos[i]
 		edits = append(edits, insertion{off: off, line: p.Line, col: p.Column, text: fmt.Sprintf("__tallymark.At(%d); ", i+1)})
-	}
-	for _, off := range restores {
-		p := fset.Position(fset.File(f.Pos()).Pos(off))
-		// Deferred with the caller's marker; a panic is passed on with the marker untouched.
-		edits = append(edits, insertion{off: off, line: p.Line, col: p.Column,
-			text: "defer func(k int) { if r := recover(); r != nil { panic(r) }; __tallymark.At(k) }(__tallymark.Now()); "})
 	}
 	sort.SliceStable(edits, func(a, b int) bool { return edits[a].off < edits[b].off })
 	out := make([]byte, 0, len(src)+len(edits)*24)
@@ -161,25 +138,4 @@ func (m *marks) column(line, col int) int {
 		}
 	}
 	return col - shift
-}
-
-// buildsSomething reports whether a function returns a value of other than a basic type: a
-// link, a block, a function, a pointer or a slice (not float64, int, bool, string, error, …).
-func buildsSomething(t *ast.FuncType) bool {
-	if t.Results == nil {
-		return false
-	}
-	for _, r := range t.Results.List {
-		if id, ok := r.Type.(*ast.Ident); ok && basicNames[id.Name] {
-			continue
-		}
-		return true
-	}
-	return false
-}
-
-var basicNames = map[string]bool{
-	"bool": true, "string": true, "error": true, "int": true, "int8": true, "int16": true, "int32": true,
-	"int64": true, "uint": true, "uint8": true, "uint16": true, "uint32": true, "uint64": true, "uintptr": true,
-	"float32": true, "float64": true, "complex64": true, "complex128": true, "byte": true, "rune": true, "any": true,
 }

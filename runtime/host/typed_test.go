@@ -84,10 +84,6 @@ func TestTypedSurfaceMistakesAtTheirLine(t *testing.T) {
 	ebn0 := x.Axis("ebn0_db", 0, 2)
 	x.Curve("b", func(p sim.Point) *link.Link { return bpsk(ebn0)(p) }).Limit(link.TapFER, nil)
 	x.Run()`, `typed.go:27:2: sim.Curve("b").Limit: the function is nil`},
-		{"limit without a function, the link from a helper", `	x := sim.New("t")
-	ebn0 := x.Axis("ebn0_db", 0, 2)
-	x.Curve("b", bpsk(ebn0)).Limit(link.TapFER, nil)
-	x.Run()`, `typed.go:27:2: sim.Curve("b").Limit: the function is nil`},
 		{"variants named as no column can be", `	x := sim.New("t")
 	x.Axis("ebn0_db", 0, 2)
 	x.Variants("front end", "plain", "clipped")
@@ -197,38 +193,35 @@ func TestFrameRoundedAndSaidOnce(t *testing.T) {
 	}
 }
 
-// A panic inside a helper that builds a link is reported at the helper's statement that
-// panicked: the marker the helper puts back on return is not put back by a panic.
-func TestPanicInBuilderHelperAtItsLine(t *testing.T) {
+// A panic the interpreter places at a column is reported at the script's own column, not at
+// the column of the instrumented text (which has a marker before every statement).
+func TestPanicColumnIsTheScripts(t *testing.T) {
 	src := `//go:build ignore
 
 package main
 
-import (
-	"tally/blocks/link"
-	"tally/runtime/sim"
-)
+import "tally/runtime/sim"
 
-func broken(n int) *link.Link {
-	var taps []int
-	_ = taps[n]
-	return nil
-}
+type T struct{ n int }
 
 func main() {
 	x := sim.New("t")
-	x.Axis("ebn0_db", 0, 2)
-	l := broken(3)
-	x.Link(func(p sim.Point) *link.Link { return l })
-	x.Run()
+	_ = x
+	var v any = 3
+	t := v.(*T)
+	_ = t
 }
 `
-	p := filepath.Join(t.TempDir(), "helper.go")
+	p := filepath.Join(t.TempDir(), "col.go")
 	if err := os.WriteFile(p, []byte(src), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	err := Run(context.Background(), p, quiet(1))
-	if err == nil || !strings.Contains(err.Error(), "helper.go:12:") || !strings.Contains(err.Error(), "index out of range") {
-		t.Fatalf("got %v; want the index out of range at helper.go:12", err)
+	if err == nil || !strings.Contains(err.Error(), "col.go:13:") || !strings.Contains(err.Error(), "interface conversion") {
+		t.Fatalf("got %v; want the interface conversion at col.go:13", err)
+	}
+	// v.(*T) begins at column 7 of the line (common practice: columns count bytes from 1).
+	if !strings.Contains(err.Error(), "col.go:13:7:") {
+		t.Errorf("got %v; want col.go:13:7", err)
 	}
 }
