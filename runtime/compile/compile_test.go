@@ -83,7 +83,7 @@ func TestBuildError(t *testing.T) {
 	built := filepath.Join(cache, "work", "k-1", "main.go") // where the build put the script's copy
 	for _, c := range []struct{ out, want string }{
 		{"# command-line-arguments\n" + built + ":12:3: undefined: foo\n", "the compiler refused the script: exp/a.go:12:3: undefined: foo"},
-		{"# command-line-arguments\n../../work/k-1/main.go:12:3: undefined: foo\n", "the compiler refused the script: exp/a.go:12:3: undefined: foo"},
+		{"# command-line-arguments\n" + filepath.Join("..", "..", "work", "k-1", "main.go") + ":12:3: undefined: foo\n", "the compiler refused the script: exp/a.go:12:3: undefined: foo"},
 		{"main.go:4:2: gonum.org/v1/gonum@v0.17.0: module lookup disabled by GOPROXY=off\n", "the Go module cache lacks gonum.org/v1/gonum v0.17.0, which tally needs (the build runs offline)"},
 		{"go: go.mod requires go >= 1.26.0 (running go 1.24.1; GOTOOLCHAIN=local)\n", "the Go toolchain on PATH is go1.24.1; tally's module needs go1.26.0 or later"},
 	} {
