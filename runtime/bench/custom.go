@@ -92,12 +92,13 @@ func Custom(ctx context.Context, o CustomOptions, w io.Writer) error {
 		o.warmCache = dir
 		t := time.Now()
 		script := filepath.Join(dir, "custom.go")
-		err := os.WriteFile(script, CombinerSource(o.Bits+1), 0o644)
+		src := CombinerSource(o.Bits + 1)
+		err := os.WriteFile(script, src, 0o644)
 		if err == nil {
-			_, err = compile.Script(ctx, compile.Request{Script: script, Source: CombinerSource(o.Bits + 1), Cache: dir, Tool: host.Version})
+			_, err = compile.Script(ctx, compile.Request{Script: script, Source: src, Cache: dir, Tool: host.Version})
 		}
 		if err == nil {
-			_, err = goBuild(ctx, script, filepath.Join(dir, "program"), dir)
+			err = goBuild(ctx, script, filepath.Join(dir, "program"), dir)
 		}
 		if err != nil {
 			return fmt.Errorf("bench: custom block: %w", err)
@@ -187,7 +188,7 @@ func tallyRun(ctx context.Context, o CustomOptions, dir string, h *isolate.Hando
 func goBuildRun(ctx context.Context, o CustomOptions, dir string) (CustomResult, error) {
 	start := time.Now()
 	prog := filepath.Join(dir, "program")
-	if _, err := goBuild(ctx, filepath.Join(dir, "custom.go"), prog, o.warmCache); err != nil {
+	if err := goBuild(ctx, filepath.Join(dir, "custom.go"), prog, o.warmCache); err != nil {
 		return CustomResult{}, err
 	}
 	built := time.Since(start)
@@ -207,20 +208,19 @@ func goBuildRun(ctx context.Context, o CustomOptions, dir string) (CustomResult,
 
 // goBuild runs go build -o prog script in tally's module (the checkout the script sits in,
 // or the source snapshot unpacked into cache), with the user's environment.
-func goBuild(ctx context.Context, script, prog, cache string) (time.Duration, error) {
+func goBuild(ctx context.Context, script, prog, cache string) error {
 	mod, err := compile.ModuleDir(script, cache)
 	if err != nil {
-		return 0, err
+		return err
 	}
-	start := time.Now()
 	cmd := exec.CommandContext(ctx, "go", "build", "-o", prog, script)
 	cmd.Dir = mod
 	var out bytes.Buffer
 	cmd.Stdout, cmd.Stderr = &out, &out
 	if err := cmd.Run(); err != nil {
-		return 0, fmt.Errorf("go build: %v: %s", err, out.String())
+		return fmt.Errorf("go build: %v: %s", err, out.String())
 	}
-	return time.Since(start), nil
+	return nil
 }
 
 // bitsOf is the bits a run counted over its points (the first tap, the BER's).

@@ -18,8 +18,8 @@ import (
 )
 
 // Handover is how a run started in the interpreter goes on compiled. When the interpreted
-// child reaches a link with a block of the script's own (the only part of a run the
-// interpreter computes slower), the parent builds the same bytes of the script with the Go
+// child reaches a link with a block of the script's own (the part of a run the interpreter
+// computes many times slower), the parent builds the same bytes of the script with the Go
 // toolchain (runtime/compile; imports are checked by the sandbox's rules first, so only what
 // the interpreter accepts is built); the child yields the processors to the build once its run
 // looks longer than a moment (pace.go). When the program is ready, and the run has more than a

@@ -13,7 +13,6 @@ import (
 // time, not a byte of the table.
 type pace struct {
 	start     time.Time     // the child's start
-	seen      bool          // a report came
 	points    int           // points finished in this child
 	total     int           // points in the sweep (0: not told yet)
 	index     int           // the point running (its index in the sweep)
@@ -27,7 +26,6 @@ func newPace(now time.Time) *pace { return &pace{start: now, pointFrom: now, ind
 
 // live takes a progress report of the running point.
 func (p *pace) live(l *wire.Live, now time.Time) {
-	p.seen = true
 	if l.Index != p.index {
 		p.index, p.pointFrom, p.leftOK = l.Index, now, false
 	}
@@ -39,7 +37,6 @@ func (p *pace) live(l *wire.Live, now time.Time) {
 
 // point takes a finished point (the sweep's total) and starts timing the next.
 func (p *pace) point(total int, now time.Time) {
-	p.seen = true
 	p.points++
 	p.spent += now.Sub(p.pointFrom)
 	p.total = total

@@ -16,8 +16,7 @@ type Axis struct {
 // heads the parameter's column in table.csv. It is Sweep returning the parameter instead of
 // the experiment.
 func (x *Experiment) Axis(name string, values ...float64) *Axis {
-	x.checkName("sim.Axis", name)
-	x.Sweep(name, values...)
+	x.sweep("sim.Axis", name, values)
 	// The x axis comes first, even when choices or curves were declared before it.
 	n := len(x.spec.Params) - 1
 	numeric := false
@@ -55,8 +54,7 @@ type Choice struct {
 // Choices sweeps a parameter over named choices and returns it to be read at each point. It is
 // SweepLabels returning the parameter instead of the experiment.
 func (x *Experiment) Choices(name string, labels ...string) *Choice {
-	x.checkName("sim.Choices", name)
-	x.SweepLabels(name, labels...)
+	x.sweepLabels("sim.Choices", name, labels, false)
 	return &Choice{name: name, labels: append([]string(nil), labels...)}
 }
 

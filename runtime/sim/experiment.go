@@ -58,32 +58,43 @@ func init() {
 // Sweep adds a swept parameter with its values. The first Sweep is the x axis; each further one
 // multiplies the grid (one curve per value in the plot).
 func (x *Experiment) Sweep(name string, values ...float64) *Experiment {
-	x.checkName("sim.Sweep", name)
+	x.sweep("sim.Sweep", name, values)
+	return x
+}
+
+// sweep is Sweep in the name of the call who made it (Sweep, Axis), for its messages.
+func (x *Experiment) sweep(who, name string, values []float64) {
+	x.checkName(who, name)
 	if len(values) == 0 {
-		runner.Fail(fmt.Errorf("sim.Sweep: parameter %q has no values", name))
+		runner.Fail(fmt.Errorf("%s: parameter %q has no values", who, name))
 	}
 	for _, v := range values {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			runner.Fail(fmt.Errorf("sim.Sweep: parameter %q has value %v, not a finite number", name, v))
+			runner.Fail(fmt.Errorf("%s: parameter %q has value %v, not a finite number", who, name, v))
 		}
 	}
 	x.spec.Params = append(x.spec.Params, runner.Param{Name: name, Values: append([]float64(nil), values...)})
-	return x
 }
 
 // SweepLabels sweeps a parameter over named choices (modems, codes): Point.Get gives the
 // choice's index 0, 1, …, Point.Label its name, and the table shows the name.
 func (x *Experiment) SweepLabels(name string, labels ...string) *Experiment {
-	x.checkName("sim.SweepLabels", name)
+	x.sweepLabels("sim.SweepLabels", name, labels, false)
+	return x
+}
+
+// sweepLabels is SweepLabels in the name of the call who made it (SweepLabels, Choices,
+// Variants); paired marks the variants of a paired comparison.
+func (x *Experiment) sweepLabels(who, name string, labels []string, paired bool) {
+	x.checkName(who, name)
 	if len(labels) == 0 {
-		runner.Fail(fmt.Errorf("sim.SweepLabels: parameter %q has no labels", name))
+		runner.Fail(fmt.Errorf("%s: parameter %q has no labels", who, name))
 	}
 	v := make([]float64, len(labels))
 	for i := range v {
 		v[i] = float64(i)
 	}
-	x.spec.Params = append(x.spec.Params, runner.Param{Name: name, Values: v, Labels: append([]string(nil), labels...)})
-	return x
+	x.spec.Params = append(x.spec.Params, runner.Param{Name: name, Values: v, Labels: append([]string(nil), labels...), Paired: paired})
 }
 
 func (x *Experiment) checkName(who, name string) {

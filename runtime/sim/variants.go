@@ -28,7 +28,6 @@ import (
 // comparison itself. The variants' frames are keyed by the point without the variants axis:
 // a block sees that index as f.Point, the same in every variant.
 func (x *Experiment) Variants(name string, labels ...string) *Experiment {
-	x.checkName("sim.Variants", name)
 	if len(labels) < 2 {
 		runner.Fail(fmt.Errorf("sim.Variants: %q has %d variant(s): a comparison needs two or more (the first is the reference)", name, len(labels)))
 	}
@@ -44,10 +43,6 @@ func (x *Experiment) Variants(name string, labels ...string) *Experiment {
 			runner.Fail(fmt.Errorf("sim.Variants: the experiment already compares the variants of %q: declare one Variants, with every variant in it", p.Name))
 		}
 	}
-	v := make([]float64, len(labels))
-	for i := range v {
-		v[i] = float64(i)
-	}
-	x.spec.Params = append(x.spec.Params, runner.Param{Name: name, Values: v, Labels: append([]string(nil), labels...), Paired: true})
+	x.sweepLabels("sim.Variants", name, labels, true)
 	return x
 }
